@@ -1,0 +1,40 @@
+# colstack: two commands on a fresh machine: `make demo` and `make test`.
+PY ?= python3
+VENV ?= .venv
+BIN := $(VENV)/bin
+STAMP_RUN := $(VENV)/.stamp-run
+STAMP_TEST := $(VENV)/.stamp-test
+STAMP_BENCH := $(VENV)/.stamp-bench
+
+.PHONY: demo test bench lint clean
+
+$(BIN)/python:
+	$(PY) -m venv $(VENV)
+	$(BIN)/python -m pip install --quiet --upgrade pip
+
+$(STAMP_RUN): pyproject.toml | $(BIN)/python
+	$(BIN)/python -m pip install --quiet -e .
+	touch $@
+
+$(STAMP_TEST): pyproject.toml | $(BIN)/python
+	$(BIN)/python -m pip install --quiet -e ".[test]"
+	touch $@ $(STAMP_RUN)
+
+$(STAMP_BENCH): pyproject.toml | $(BIN)/python
+	$(BIN)/python -m pip install --quiet -e ".[bench]"
+	touch $@ $(STAMP_RUN)
+
+demo: $(STAMP_RUN)
+	$(BIN)/colstack section examples/section_600x400.toml
+	$(BIN)/colstack section examples/section_600x400.toml --json
+	$(BIN)/colstack section examples/section_600x400.toml --plot demo_out/section_600x400.png
+
+test: $(STAMP_TEST)
+	$(BIN)/python -m ruff check design optimizer
+	$(BIN)/python -m pytest -q
+
+bench: $(STAMP_BENCH)
+	$(BIN)/python bench/bench_resistance.py
+
+clean:
+	rm -rf $(VENV) demo_out .pytest_cache
