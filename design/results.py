@@ -1,0 +1,51 @@
+"""Result types shared by every check in :mod:`design`."""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+__all__ = ["CheckResult", "governing"]
+
+
+@dataclass(frozen=True)
+class CheckResult:
+    """One design check: demand against capacity, with the clause it comes from.
+
+    ``utilisation`` is demand / capacity for "demand must not exceed capacity"
+    checks; checks of the form "value must be at least a minimum" store the
+    minimum as demand and the value provided as capacity, so utilisation > 1
+    still means failure. ``applicable`` is False when the method does not
+    apply (the check then neither passes nor governs; ``note`` says why).
+    """
+
+    name: str
+    clause: str
+    demand: float
+    capacity: float
+    unit: str = ""
+    note: str = ""
+    applicable: bool = True
+    extra: dict = field(default_factory=dict, compare=False)
+
+    @property
+    def utilisation(self) -> float:
+        """demand / capacity; inf when capacity is zero and demand positive."""
+        if self.capacity == 0:
+            return 0.0 if self.demand == 0 else math.inf
+        return self.demand / self.capacity
+
+    @property
+    def ok(self) -> bool:
+        """True when the check passes (a check that does not apply does not pass)."""
+        return self.applicable and self.utilisation <= 1.0 + 1e-12
+
+
+def governing(checks: list[CheckResult]) -> CheckResult | None:
+    """The check with the highest utilisation (a non-applicable check governs first)."""
+    if not checks:
+        return None
+    not_applicable = [c for c in checks if not c.applicable]
+    if not_applicable:
+        return not_applicable[0]
+    return max(checks, key=lambda c: c.utilisation)
