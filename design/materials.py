@@ -46,7 +46,12 @@ STANDARD_CLASSES: dict[int, int] = {
 
 
 def _hs(fck: ArrayLike) -> np.ndarray:
-    """True where the high-strength expressions of Table 3.1 apply (fck > 50)."""
+    """True where the high-strength expressions of Table 3.1 are used (fck > 50).
+
+    Table 3.1 states them "for fck >= 50 MPa", but at fck = 50 they give
+    n = 1.999, eps_cu2 = 3.496 per mille where the table's C50/60 column reads
+    2.0 and 3.5; using them only above 50 MPa reproduces the tabulated values.
+    """
     return np.asarray(fck, dtype=float) > 50.0
 
 
@@ -97,7 +102,7 @@ def eps_cu1(fck: ArrayLike) -> np.ndarray:
     EN 1992-1-1, Table 3.1: 3.5 per mille; 2.8 + 27 ((98 - fcm)/100)^4 for fck >= 50.
     """
     f = np.asarray(fck, dtype=float)
-    return np.where(f >= 50.0, 2.8 + 27.0 * ((98.0 - fcm(f)) / 100.0) ** 4, 3.5) / 1000.0
+    return np.where(_hs(f), 2.8 + 27.0 * ((98.0 - fcm(f)) / 100.0) ** 4, 3.5) / 1000.0
 
 
 def eps_c2(fck: ArrayLike) -> np.ndarray:
@@ -106,7 +111,7 @@ def eps_c2(fck: ArrayLike) -> np.ndarray:
     EN 1992-1-1, Table 3.1: 2.0 per mille; 2.0 + 0.085 (fck - 50)^0.53 for fck >= 50.
     """
     f = np.asarray(fck, dtype=float)
-    return np.where(f >= 50.0, 2.0 + 0.085 * np.maximum(f - 50.0, 0.0) ** 0.53, 2.0) / 1000.0
+    return np.where(_hs(f), 2.0 + 0.085 * np.maximum(f - 50.0, 0.0) ** 0.53, 2.0) / 1000.0
 
 
 def eps_cu2(fck: ArrayLike) -> np.ndarray:
@@ -115,7 +120,7 @@ def eps_cu2(fck: ArrayLike) -> np.ndarray:
     EN 1992-1-1, Table 3.1: 3.5 per mille; 2.6 + 35 ((90 - fck)/100)^4 for fck >= 50.
     """
     f = np.asarray(fck, dtype=float)
-    return np.where(f >= 50.0, 2.6 + 35.0 * ((90.0 - f) / 100.0) ** 4, 3.5) / 1000.0
+    return np.where(_hs(f), 2.6 + 35.0 * ((90.0 - f) / 100.0) ** 4, 3.5) / 1000.0
 
 
 def n_exponent(fck: ArrayLike) -> np.ndarray:
@@ -124,7 +129,7 @@ def n_exponent(fck: ArrayLike) -> np.ndarray:
     EN 1992-1-1, Table 3.1: 2.0; 1.4 + 23.4 ((90 - fck)/100)^4 for fck >= 50.
     """
     f = np.asarray(fck, dtype=float)
-    return np.where(f >= 50.0, 1.4 + 23.4 * ((90.0 - f) / 100.0) ** 4, 2.0)
+    return np.where(_hs(f), 1.4 + 23.4 * ((90.0 - f) / 100.0) ** 4, 2.0)
 
 
 def eps_c3(fck: ArrayLike) -> np.ndarray:
@@ -133,7 +138,7 @@ def eps_c3(fck: ArrayLike) -> np.ndarray:
     EN 1992-1-1, Table 3.1: 1.75 per mille; 1.75 + 0.55 (fck - 50)/40 for fck >= 50.
     """
     f = np.asarray(fck, dtype=float)
-    return np.where(f >= 50.0, 1.75 + 0.55 * (f - 50.0) / 40.0, 1.75) / 1000.0
+    return np.where(_hs(f), 1.75 + 0.55 * (f - 50.0) / 40.0, 1.75) / 1000.0
 
 
 def eps_cu3(fck: ArrayLike) -> np.ndarray:
@@ -240,7 +245,8 @@ class Concrete:
 
     def __post_init__(self) -> None:
         if not (FCK_MIN <= self.fck <= FCK_MAX):
-            msg = f"fck must lie between {FCK_MIN:g} and {FCK_MAX:g} MPa (EN 1992-1-1, 3.1.2(2)P), got fck={self.fck} MPa"
+            msg = (f"fck must lie between {FCK_MIN:g} and {FCK_MAX:g} MPa (EN 1992-1-1, 3.1.2(2)P), "
+                   f"got fck={self.fck} MPa")
             raise ValueError(msg)
 
     @classmethod

@@ -68,6 +68,20 @@ class NationalParameters:
             diameter). EN 1992-1-1, 8.2(2).
         k2_spacing_mm: k2 of the minimum clear bar spacing, mm added to the
             aggregate size. EN 1992-1-1, 8.2(2).
+        gamma_cE: partial factor on Ecm for the design modulus Ecd = Ecm/gamma_cE
+            of the nominal stiffness method (1.2). EN 1992-1-1, 5.8.6(3).
+        structural_class_50y: structural class (1..6 for S1..S6) for a design
+            working life of 50 years before the Table 4.3N modifications (4).
+            EN 1992-1-1, 4.4.1.2(5), Note 1.
+        delta_c_dur_gamma: additive safety element on cmin,dur, mm (0).
+            EN 1992-1-1, 4.4.1.2(6).
+        delta_c_dur_st: reduction of cmin,dur for stainless steel, mm (0).
+            EN 1992-1-1, 4.4.1.2(7).
+        delta_c_dur_add: reduction of cmin,dur for additional protection, mm (0).
+            EN 1992-1-1, 4.4.1.2(8).
+        e_max_fire_factor: emax / h (or b) for the first-order eccentricity
+            limit of method A for columns in fire (0.15; the annex may choose
+            0.15 to 0.4). EN 1992-1-2, 5.3.2(2), Note.
     """
 
     name: str = "EN 1992-1-1 recommended"
@@ -94,6 +108,12 @@ class NationalParameters:
     eps_ud_factor: float = 0.9
     k1_spacing: float = 1.0
     k2_spacing_mm: float = 5.0
+    gamma_cE: float = 1.2
+    structural_class_50y: int = 4
+    delta_c_dur_gamma: float = 0.0
+    delta_c_dur_st: float = 0.0
+    delta_c_dur_add: float = 0.0
+    e_max_fire_factor: float = 0.15
 
     def __post_init__(self) -> None:
         positive = (
@@ -114,7 +134,8 @@ class NationalParameters:
             msg = "delta_c_dev, k2_spacing_mm and rho_min_axial must not be negative"
             raise ValueError(msg)
         if self.xi > 1.0 or self.scl_reduction > 1.0:
-            msg = f"xi and scl_reduction are reduction factors (<= 1), got xi={self.xi}, scl_reduction={self.scl_reduction}"
+            msg = (f"xi and scl_reduction are reduction factors (<= 1), "
+                   f"got xi={self.xi}, scl_reduction={self.scl_reduction}")
             raise ValueError(msg)
 
 

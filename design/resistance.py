@@ -39,7 +39,9 @@ many axial loads with numpy (no Python loop per section), and
 from __future__ import annotations
 
 import math
+import os
 from collections.abc import Sequence
+from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass
 from typing import Literal
 
@@ -70,11 +72,12 @@ HORIZONTAL_BRANCH_STRAIN_LIMIT = 1.0
 
 # Breakpoints of the s-grid used to bracket N(s) = NEd.
 _S_GRID = np.concatenate([
-    np.linspace(0.0, 1.0, 7)[:-1],
-    np.linspace(1.0, 2.0, 33)[:-1],
-    np.linspace(2.0, 3.0, 13),
+    np.linspace(0.0, 1.0, 17)[:-1],
+    np.linspace(1.0, 2.0, 129)[:-1],
+    np.linspace(2.0, 3.0, 49),
 ])
 
+_DEFAULT_WORKERS = max(1, min(2, os.cpu_count() or 1))
 _GAUSS_CACHE: dict[int, tuple[np.ndarray, np.ndarray]] = {}
 
 
@@ -136,7 +139,7 @@ class _Projected:
     sin: np.ndarray  # (S,) direction sine (z component)
     v: np.ndarray  # (S, m)
     t: np.ndarray  # (S, m)
-    u: np.ndarray  # (S, m)
+    Au: np.ndarray  # (S, m) area times across-coordinate, mm3
     A: np.ndarray  # (S, m)
     dmax: np.ndarray  # (S,)
     mat: dict  # material arrays, each (S,)
@@ -147,7 +150,7 @@ class _Projected:
         return _Projected(
             circ=self.circ[idx], H=self.H[idx], width=self.width[idx], R=self.R[idx],
             b=self.b[idx], h=self.h[idx], cos=self.cos[idx], sin=self.sin[idx],
-            v=self.v[idx], t=self.t[idx], u=self.u[idx], A=self.A[idx], dmax=self.dmax[idx],
+            v=self.v[idx], t=self.t[idx], Au=self.Au[idx], A=self.A[idx], dmax=self.dmax[idx],
             mat={k: a[idx] for k, a in self.mat.items()}, angled=self.angled,
         )
 
@@ -230,9 +233,10 @@ class SectionBatch:
         width = np.where(np.abs(sin) > 0.5, self.b, self.h) if principal else np.zeros(S)
         v = H[:, None] / 2 - t
         dmax = np.max(np.where(self.bar_A > 0, v, -np.inf), axis=1)
+        v, t, A, Au = _layers(v, t, self.bar_A, self.bar_A * u)
         return _Projected(
             circ=self.circ, H=H, width=width, R=R, b=self.b, h=self.h, cos=cos, sin=sin,
-            v=v, t=t, u=u, A=self.bar_A, dmax=dmax, mat=self.mat,
+            v=v, t=t, Au=Au, A=A, dmax=dmax, mat=self.mat,
             angled=not principal and bool(np.any(~self.circ)),
         )
 
@@ -295,7 +299,7 @@ class SectionBatch:
         if not moments:
             return N, St, Su
         St = St + (F * Q.t).sum(axis=1)
-        Su = Su + (F * Q.u).sum(axis=1)
+        Su = Su + (sig * Q.Au).sum(axis=1)
         return N, St, Su
 
     def _concrete(
@@ -409,59 +413,85 @@ class SectionBatch:
                moments: bool = True):
         """Find s with N(s) = NEd per pair; return (ok, S_t, S_u) at that s."""
         n = len(idx)
-        Nt = N_tab[idx]
-        inside = (NEd >= Nt[:, 0]) & (NEd <= Nt[:, -1])
+        K = N_tab.shape[1]
+        inside = (NEd >= N_tab[idx, 0]) & (NEd <= N_tab[idx, -1])
         St = np.zeros(n)
         Su = np.zeros(n)
         rows = np.nonzero(inside)[0]
         if rows.size == 0:
             return inside, St, Su
-        Nt = Nt[rows]
         target = NEd[rows]
-        k = np.argmax(Nt[:, 1:] >= target[:, None], axis=1)
-        a, b = _S_GRID[k], _S_GRID[k + 1]
-        fa = Nt[np.arange(len(k)), k] - target
-        fb = Nt[np.arange(len(k)), k + 1] - target
+        flat = N_tab.ravel()
+        base = idx[rows] * K
+        # Binary search on the (non-decreasing) table for N(s_k) < NEd <= N(s_k+1).
+        lo = np.zeros(len(rows), dtype=np.int64)
+        hi = np.full(len(rows), K - 1, dtype=np.int64)
+        while True:
+            open_ = hi - lo > 1
+            if not open_.any():
+                break
+            mid = (lo + hi) // 2
+            below = flat[base + mid] < target
+            lo = np.where(open_ & below, mid, lo)
+            hi = np.where(open_ & ~below, mid, hi)
+        a, b = _S_GRID[lo], _S_GRID[hi]
+        fa = flat[base + lo] - target
+        fb = flat[base + hi] - target
+        # First guess: inverse quadratic interpolation through three table points.
+        third = np.where(lo > 0, lo - 1, np.minimum(hi + 1, K - 1))
+        s3, f3 = _S_GRID[third], flat[base + third] - target
+        guess = _inverse_quadratic(a, fa, b, fb, s3, f3)
+        Nt_range = N_tab[idx[rows], -1] - N_tab[idx[rows], 0]
         Q = P_all.take(idx[rows])
-        tol = 1e-12 * (Nt[:, -1] - Nt[:, 0])
-        s = 0.5 * (a + b)
-        last = np.zeros(len(rows), dtype=np.int8)  # -1: a moved last, +1: b moved last
-        active = (b - a > 0) & (fa < 0) & (fb > 0)
-        s = np.where(fa >= 0, a, np.where(fb <= 0, b, s))
+        tol = 1e-11 * Nt_range
+        s = np.where(fa >= 0, a, np.where(fb <= 0, b, guess))
+        active = (fa < 0) & (fb > 0)
+        # Previous iterate for the secant steps: the bracket end nearer the root.
+        near_a = np.abs(fa) < np.abs(fb)
+        xp, fp = np.where(near_a, a, b), np.where(near_a, fa, fb)
+        xc, fcur = s.copy(), np.zeros(len(rows))
+        st = np.zeros(len(rows))
+        su = np.zeros(len(rows))
+        fixed = np.nonzero(~active)[0]
+        if fixed.size and moments:
+            Qf = Q.take(fixed)
+            eps_top, kappa = _profile(s[fixed], Qf)
+            _, st[fixed], su[fixed] = self._forces(Qf, eps_top, kappa, moments=True)
         for it in range(100):
             act = np.nonzero(active)[0]
             if act.size == 0:
                 break
             Qa = Q.take(act) if act.size < len(rows) else Q
-            aa, bb, ffa, ffb = a[act], b[act], fa[act], fb[act]
-            if it < 60:  # Illinois (modified regula falsi) step
-                c = (aa * ffb - bb * ffa) / (ffb - ffa)
-                c = np.where((c > aa) & (c < bb), c, 0.5 * (aa + bb))
-            else:  # safeguard: plain bisection
+            aa, bb = a[act], b[act]
+            if it == 0:
+                c = guess[act]
+            elif it < 50:
+                # Secant through the last two iterates, kept inside the bracket
+                # (bisection otherwise): superlinear and safe.
+                x1, f1, x0, f0 = xc[act], fcur[act], xp[act], fp[act]
+                with np.errstate(divide="ignore", invalid="ignore"):
+                    c = x1 - f1 * (x1 - x0) / (f1 - f0)
+            else:
                 c = 0.5 * (aa + bb)
+            c = np.where((c > aa) & (c < bb), c, 0.5 * (aa + bb))
             eps_top, kappa = _profile(c, Qa)
-            fc, _, _ = self._forces(Qa, eps_top, kappa, moments=False)
+            fc, st_c, su_c = self._forces(Qa, eps_top, kappa, moments=moments)
             fc = fc - target[act]
-            s[act] = c
+            s[act], st[act], su[act] = c, st_c, su_c
+            if it > 0:
+                xp[act], fp[act] = xc[act], fcur[act]
+            xc[act], fcur[act] = c, fc
             move_a = fc < 0
-            la = last[act]
-            ffb = np.where(move_a & (la == -1), 0.5 * ffb, ffb)
-            ffa = np.where(~move_a & (la == 1), 0.5 * ffa, ffa)
             a[act] = np.where(move_a, c, aa)
-            fa[act] = np.where(move_a, fc, ffa)
             b[act] = np.where(move_a, bb, c)
-            fb[act] = np.where(move_a, ffb, fc)
-            last[act] = np.where(move_a, -1, 1)
-            done = (np.abs(fc) <= tol[act]) | (b[act] - a[act] <= 4e-16 * 3)
+            done = (np.abs(fc) <= tol[act]) | (b[act] - a[act] <= 1e-15)
             active[act[done]] = False
-        if moments:
-            eps_top, kappa = _profile(s, Q)
-            _, st, su = self._forces(Q, eps_top, kappa, moments=True)
-            St[rows], Su[rows] = st, su
+        St[rows], Su[rows] = st, su
         return inside, St, Su
 
     def moment_resistance(self, NEd: np.ndarray, axis: Axis, idx: np.ndarray | None = None,
-                          positive: bool = True, chunk: int = 20_000) -> np.ndarray:
+                          positive: bool = True, chunk: int = 8192,
+                          workers: int = _DEFAULT_WORKERS) -> np.ndarray:
         """Moment resistance MRd (N mm) about ``axis`` at axial load NEd (N) per pair.
 
         EN 1992-1-1, 6.1 (strain compatibility with the limits of Fig. 6.1).
@@ -472,6 +502,7 @@ class SectionBatch:
             idx: section index per pair; None when NEd has one value per section.
             positive: compression on the + face (True) or the - face (False).
             chunk: pairs handled at once (bounds memory).
+            workers: threads sharing the chunks (default: up to 2 cores).
 
         Returns:
             MRd >= 0 per pair (0 where NEd lies outside [NRd,t, NRd]).
@@ -483,10 +514,20 @@ class SectionBatch:
             raise ValueError(msg)
         P, N_tab = self._table(axis, positive)
         out = np.zeros(len(NEd))
-        for start in range(0, len(NEd), chunk):
+
+        def work(start: int) -> None:
             sl = slice(start, start + chunk)
             _, St, _ = self._solve(P, N_tab, idx[sl], NEd[sl])
             out[sl] = np.abs(St)
+
+        starts = range(0, len(NEd), chunk)
+        if workers > 1 and len(NEd) > chunk:
+            # numpy releases the GIL inside its loops, so threads share the cores.
+            with ThreadPoolExecutor(max_workers=workers) as pool:
+                list(pool.map(work, starts))
+        else:
+            for start in starts:
+                work(start)
         return out
 
     def NRd(self) -> np.ndarray:
@@ -589,6 +630,40 @@ def _rect_slice(Q: _Projected, v: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         umax = np.where(hit, np.maximum(umax, u), umax)
     empty = ~np.isfinite(umin)
     return np.where(empty, 0.0, umin), np.where(empty, 0.0, umax)
+
+
+def _layers(v: np.ndarray, t: np.ndarray, A: np.ndarray, Au: np.ndarray):
+    """Merge bars at the same depth into layers (they share one strain).
+
+    Returns padded (S, L) arrays of depth, lever arm, area and area times the
+    across-coordinate; exact, since every bar of a layer has the same strain.
+    """
+    S = v.shape[0]
+    key = np.round(v, 9)
+    groups = []
+    for i in range(S):
+        real = A[i] > 0
+        uniq, inv = np.unique(key[i, real], return_inverse=True)
+        groups.append((uniq, inv, real))
+    L = max(len(g[0]) for g in groups)
+    vl, tl, Al, Aul = (np.zeros((S, L)) for _ in range(4))
+    for i, (uniq, inv, real) in enumerate(groups):
+        k = len(uniq)
+        Al[i, :k] = np.bincount(inv, weights=A[i, real], minlength=k)
+        Aul[i, :k] = np.bincount(inv, weights=Au[i, real], minlength=k)
+        vl[i, :k] = uniq
+        tl[i, :k] = np.bincount(inv, weights=t[i, real], minlength=k) / np.bincount(inv, minlength=k)
+    return vl, tl, Al, Aul
+
+
+def _inverse_quadratic(a, fa, b, fb, c, fc) -> np.ndarray:
+    """Root estimate by inverse quadratic interpolation; linear when it falls outside (a, b)."""
+    with np.errstate(divide="ignore", invalid="ignore"):
+        q = (a * fb * fc / ((fa - fb) * (fa - fc)) + b * fa * fc / ((fb - fa) * (fb - fc))
+             + c * fa * fb / ((fc - fa) * (fc - fb)))
+        lin = a - fa * (b - a) / (fb - fa)
+    lin = np.where(np.isfinite(lin), lin, 0.5 * (a + b))
+    return np.where(np.isfinite(q) & (q > a) & (q < b), q, lin)
 
 
 def _depth_of(e, eps_top: np.ndarray, kappa: np.ndarray, H: np.ndarray) -> np.ndarray:
@@ -718,14 +793,14 @@ def moment_resistance_scalar(ds: DesignSection, NEd: float, axis: Axis) -> float
                 pts.append(min(max((top - e) / kap, 0.0), H))
         pts = sorted(set(pts))
         N = M = 0.0
-        for lo, hi in zip(pts[:-1], pts[1:]):
+        for lo, hi in zip(pts[:-1], pts[1:], strict=True):
             if hi - lo <= 0:
                 continue
             N += integrate.quad(lambda v: sig_c(top - kap * v) * width_at(v), lo, hi,
                                 epsabs=1e-9, epsrel=1e-12, limit=200)[0]
             M += integrate.quad(lambda v: sig_c(top - kap * v) * width_at(v) * (H / 2 - v), lo, hi,
                                 epsabs=1e-9, epsrel=1e-12, limit=200)[0]
-        for a, d, c in zip(areas, depths, lever):
+        for a, d, c in zip(areas, depths, lever, strict=True):
             e = top - kap * d
             force = a * (float(steel.stress(e)) - sig_c(e))
             N += force

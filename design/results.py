@@ -30,7 +30,7 @@ class CheckResult:
 
     @property
     def utilisation(self) -> float:
-        """demand / capacity; inf when capacity is zero and demand positive."""
+        """Demand / capacity; inf when capacity is zero and demand positive."""
         if self.capacity == 0:
             return 0.0 if self.demand == 0 else math.inf
         return self.demand / self.capacity

@@ -102,7 +102,8 @@ class RectBars:
         for name in ("nb", "nh"):
             value = getattr(self, name)
             if int(value) != value or value < 2:
-                msg = f"{name} counts the bars on one face including both corners and must be an integer >= 2, got {name}={value}"
+                msg = (f"{name} counts the bars on one face including both corners "
+                       f"and must be an integer >= 2, got {name}={value}")
                 raise ValueError(msg)
         if self.corner_dia is not None and self.corner_dia == self.dia:
             object.__setattr__(self, "corner_dia", None)
@@ -291,7 +292,7 @@ class RectSection:
         for width, count in ((self.b, bars.nb), (self.h, bars.nh)):
             pitch = (width - 2 * inset - bars.corner) / (count - 1)
             dias = [bars.corner] + [bars.dia] * (count - 2) + [bars.corner]
-            gaps += [pitch - (a + c) / 2 for a, c in zip(dias[:-1], dias[1:])]
+            gaps += [pitch - (a + c) / 2 for a, c in zip(dias[:-1], dias[1:], strict=True)]
         return np.asarray(gaps)
 
 
