@@ -7,7 +7,7 @@ along b). Hence
 
 * iy = h/sqrt(12) (about y) and iz = b/sqrt(12) (about z);
 * ez = MEdy/NEd is the eccentricity along z, ey = MEdz/NEd along y
-  (5.8.9(4), definitions under Eq. (5.38b));
+  (5.8.9(3), definitions under Eq. (5.38b));
 * beq = iy sqrt(12) = h and heq = iz sqrt(12) = b, so the relative
   eccentricities of Eq. (5.38b) are ey/heq = ey/b and ez/beq = ez/h: each
   eccentricity is divided by the section dimension in its own direction.
@@ -17,7 +17,7 @@ Units: N, mm, MPa, moments in N mm. All numeric arguments broadcast.
 
 from __future__ import annotations
 
-from enum import Enum
+from enum import StrEnum
 
 import numpy as np
 from numpy.typing import ArrayLike
@@ -37,7 +37,7 @@ __all__ = [
 ]
 
 
-class SectionShape(str, Enum):
+class SectionShape(StrEnum):
     """Section shape for the exponent a of Eq. (5.39)."""
 
     RECTANGULAR = "rectangular"

@@ -12,7 +12,7 @@ Units: mm, MPa. The value functions broadcast over their numeric arguments
 
 from __future__ import annotations
 
-from enum import Enum
+from enum import StrEnum
 
 import numpy as np
 from numpy.typing import ArrayLike
@@ -32,7 +32,7 @@ __all__ = [
 ]
 
 
-class ExposureClass(str, Enum):
+class ExposureClass(StrEnum):
     """Exposure classes of EN 1992-1-1, Table 4.1 (EN 206)."""
 
     X0 = "X0"

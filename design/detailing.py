@@ -9,7 +9,7 @@ provided as capacity (see :class:`~design.results.CheckResult`).
 
 from __future__ import annotations
 
-from enum import Enum
+from enum import StrEnum
 
 import numpy as np
 from numpy.typing import ArrayLike
@@ -42,7 +42,7 @@ RESTRAINT_DISTANCE_MM = 150.0  # EN 1992-1-1, 9.5.3(6)
 LAP_LINK_PHI_MM = 14.0  # EN 1992-1-1, 9.5.3(4)(ii): reduced spacing at laps if phi > 14 mm
 
 
-class ColumnShape(str, Enum):
+class ColumnShape(StrEnum):
     """Cross-section shape for the minimum number of bars, 9.5.2(4)."""
 
     RECTANGULAR = "rectangular"

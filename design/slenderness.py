@@ -21,7 +21,7 @@ the same side").
 from __future__ import annotations
 
 from dataclasses import dataclass
-from enum import Enum
+from enum import StrEnum
 
 import numpy as np
 from numpy.typing import ArrayLike
@@ -375,7 +375,7 @@ def lambda_lim(
 # --------------------------------------------------------------------------
 
 
-class ImperfectionMethod(str, Enum):
+class ImperfectionMethod(StrEnum):
     """How the eccentricity ei of an isolated column is found (EN 1992-1-1, 5.2)."""
 
     INCLINATION = "inclination"  # ei = theta_i l0 / 2, Eqs. (5.1), (5.2)
@@ -520,7 +520,7 @@ def first_order_end_moments(
     directly. The imperfection moment NEd ei is added to both ends in the
     direction of M02, i.e. the direction that increases |M02| (a uniform
     eccentricity acting with the larger end moment). Where bending is
-    biaxial the imperfection needs to act in one direction only (5.8.9(3)):
+    biaxial the imperfection needs to act in one direction only (5.8.9(2)):
     set ``include_imperfection`` False for the other axis.
 
     Args:

@@ -1,0 +1,200 @@
+"""Reading single-column specification files (JSON or TOML) for `colstack section` and `check`.
+
+A specification names one section, its materials and, optionally, the
+actions on it. Units at this edge: kN, kNm, mm, MPa. Every key is checked:
+unknown keys are errors with a suggestion, missing engineering values are
+errors (never a silent default), and each message names the file, the key and
+the value.
+"""
+
+from __future__ import annotations
+
+import difflib
+import json
+import math
+import tomllib
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+from design.materials import Concrete, ConcreteLaw, Ductility, Reinforcement, TopBranch, parse_concrete_class
+from design.params import NationalParameters, parameter_set, with_overrides
+from design.resistance import DesignSection
+from design.sections import CircBars, CircSection, RectBars, RectSection
+from optimizer.errors import InputError
+
+__all__ = ["SectionSpec", "load_spec_file", "section_spec", "check_keys", "number"]
+
+SECTION_KEYS = {
+    "b", "h", "diameter", "cover", "link", "fck", "grade", "fyk", "ductility", "branch", "law",
+    "bars", "NEd", "parameters", "national", "aggregate",
+}
+PARAMETER_KEYS = {
+    "alpha_cc", "alpha_ct", "gamma_c", "gamma_s", "theta_0", "lambda_A", "lambda_B", "lambda_C",
+    "phi_min_long", "delta_c_dev",
+}
+
+
+@dataclass(frozen=True)
+class SectionSpec:
+    """A parsed section specification."""
+
+    path: str
+    design: DesignSection
+    params: NationalParameters
+    NEd_kN: float | None
+    aggregate_mm: float
+
+
+def load_spec_file(path: str | Path) -> dict[str, Any]:
+    """Read a JSON or TOML file into a dict, with a one-line error for unreadable input."""
+    p = Path(path)
+    if not p.is_file():
+        raise InputError(str(p), "file", str(p), "an existing JSON or TOML file")
+    try:
+        text = p.read_text(encoding="utf-8")
+    except UnicodeDecodeError:
+        raise InputError(str(p), "file", p.name, "UTF-8 text") from None
+    try:
+        if p.suffix.lower() == ".json":
+            data = json.loads(text)
+        elif p.suffix.lower() == ".toml":
+            data = tomllib.loads(text)
+        else:
+            raise InputError(str(p), "file", p.suffix, "a .json or .toml file")
+    except json.JSONDecodeError as exc:
+        raise InputError(str(p), f"line {exc.lineno}", exc.msg, "valid JSON") from None
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(str(p), "syntax", str(exc), "valid TOML") from None
+    if not isinstance(data, dict):
+        raise InputError(str(p), "top level", type(data).__name__, "a table of keys")
+    return data
+
+
+def check_keys(path: str, where: str, data: dict, allowed: set[str]) -> None:
+    """Raise an InputError for the first unknown key, suggesting the nearest allowed one."""
+    for key in data:
+        if key not in allowed:
+            close = difflib.get_close_matches(key, sorted(allowed), n=1)
+            hint = f"did you mean {close[0]!r}?" if close else f"expected one of {', '.join(sorted(allowed))}"
+            field = f"{where}.{key}" if where else key
+            raise InputError(path, field, data[key], f"unknown key; {hint}")
+
+
+def number(path: str, field: str, value: Any, *, positive: bool = False, allow_zero: bool = True,
+           minimum: float | None = None, maximum: float | None = None, unit: str = "") -> float:
+    """Validate a finite number, with range limits; InputError otherwise."""
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        raise InputError(path, field, value, f"a number{' in ' + unit if unit else ''}")
+    v = float(value)
+    if not math.isfinite(v):
+        raise InputError(path, field, value, "a finite number")
+    if positive and (v < 0 or (v == 0 and not allow_zero)):
+        raise InputError(path, field, value, f"a positive number{' in ' + unit if unit else ''}")
+    if minimum is not None and v < minimum:
+        raise InputError(path, field, value, f"at least {minimum:g}{' ' + unit if unit else ''}")
+    if maximum is not None and v > maximum:
+        raise InputError(path, field, value, f"at most {maximum:g}{' ' + unit if unit else ''}")
+    return v
+
+
+def _required(path: str, data: dict, key: str, where: str = "") -> Any:
+    if key not in data:
+        field = f"{where}.{key}" if where else key
+        raise InputError(path, field, None, "missing; this engineering value has no default")
+    return data[key]
+
+
+def _choice(path: str, field: str, value: Any, enum: type) -> Any:
+    try:
+        return enum(value)
+    except ValueError:
+        options = ", ".join(repr(e.value) for e in enum)
+        raise InputError(path, field, value, f"one of {options}") from None
+
+
+def section_spec(data: dict[str, Any], path: str, extra_keys: set[str] = frozenset()) -> SectionSpec:
+    """Build the design section described by ``data`` (already loaded from ``path``)."""
+    check_keys(path, "", data, SECTION_KEYS | set(extra_keys))
+    params = parameter_set("EN")
+    if "national" in data:
+        try:
+            params = parameter_set(data["national"])
+        except ValueError:
+            raise InputError(path, "national", data["national"], "'EN' or 'UK'") from None
+    overrides = data.get("parameters", {})
+    if not isinstance(overrides, dict):
+        raise InputError(path, "parameters", overrides, "a table of parameter overrides")
+    check_keys(path, "parameters", overrides, PARAMETER_KEYS)
+    if overrides:
+        values = {k: number(path, f"parameters.{k}", v, positive=True) for k, v in overrides.items()}
+        try:
+            params = with_overrides(params, **values)
+        except ValueError as exc:
+            raise InputError(path, "parameters", overrides, str(exc)) from None
+
+    # Concrete: fck (MPa) or grade ("C30/37"), not both.
+    if "fck" in data and "grade" in data:
+        raise InputError(path, "grade", data["grade"], "give either fck or grade, not both")
+    if "grade" in data:
+        try:
+            fck = parse_concrete_class(data["grade"])
+        except ValueError as exc:
+            raise InputError(path, "grade", data["grade"], str(exc)) from None
+    else:
+        fck = number(path, "fck", _required(path, data, "fck"), minimum=12, maximum=90, unit="MPa")
+    try:
+        concrete = Concrete(fck, alpha_cc=params.alpha_cc, gamma_c=params.gamma_c)
+    except ValueError as exc:
+        raise InputError(path, "fck", fck, str(exc)) from None
+    fyk = number(path, "fyk", _required(path, data, "fyk"), minimum=400, maximum=600, unit="MPa")
+    steel = Reinforcement.with_params(
+        fyk,
+        _choice(path, "ductility", data.get("ductility", "B"), Ductility),
+        _choice(path, "branch", data.get("branch", "horizontal"), TopBranch),
+        params,
+    )
+    law = _choice(path, "law", data.get("law", ConcreteLaw.PARABOLA_RECTANGLE.value), ConcreteLaw)
+
+    cover = number(path, "cover", _required(path, data, "cover"), positive=True, allow_zero=False, unit="mm")
+    link = number(path, "link", _required(path, data, "link"), positive=True, allow_zero=False, unit="mm")
+    bars = _required(path, data, "bars")
+    if not isinstance(bars, dict):
+        raise InputError(path, "bars", bars, "a table such as {dia = 25, nb = 3, nh = 4}")
+    try:
+        if "diameter" in data:
+            if "b" in data or "h" in data:
+                raise InputError(path, "diameter", data["diameter"], "give b and h, or diameter, not both")
+            check_keys(path, "bars", bars, {"dia", "n"})
+            diameter = number(path, "diameter", data["diameter"], positive=True, allow_zero=False, unit="mm")
+            dia = number(path, "bars.dia", _required(path, bars, "dia", "bars"), positive=True,
+                         allow_zero=False, unit="mm")
+            n = _integer(path, "bars.n", _required(path, bars, "n", "bars"), 3)
+            section = CircSection(diameter, cover, link, CircBars(dia, n))
+        else:
+            check_keys(path, "bars", bars, {"dia", "nb", "nh", "corner_dia"})
+            b = number(path, "b", _required(path, data, "b"), positive=True, allow_zero=False, unit="mm")
+            h = number(path, "h", _required(path, data, "h"), positive=True, allow_zero=False, unit="mm")
+            dia = number(path, "bars.dia", _required(path, bars, "dia", "bars"), positive=True,
+                         allow_zero=False, unit="mm")
+            nb = _integer(path, "bars.nb", _required(path, bars, "nb", "bars"), 2)
+            nh = _integer(path, "bars.nh", _required(path, bars, "nh", "bars"), 2)
+            corner = bars.get("corner_dia")
+            if corner is not None:
+                corner = number(path, "bars.corner_dia", corner, positive=True, allow_zero=False, unit="mm")
+            section = RectSection(b, h, cover, link, RectBars(dia, nb, nh, corner))
+    except ValueError as exc:
+        raise InputError(path, "section", data.get("bars"), str(exc)) from None
+
+    NEd = None
+    if "NEd" in data:
+        NEd = number(path, "NEd", data["NEd"], unit="kN")
+    aggregate = number(path, "aggregate", data.get("aggregate", 20.0), positive=True, allow_zero=False,
+                       unit="mm")
+    return SectionSpec(path, DesignSection(section, concrete, steel, law), params, NEd, aggregate)
+
+
+def _integer(path: str, field: str, value: Any, minimum: int) -> int:
+    if isinstance(value, bool) or not isinstance(value, int) or value < minimum:
+        raise InputError(path, field, value, f"a whole number >= {minimum}")
+    return int(value)
