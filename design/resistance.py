@@ -144,6 +144,7 @@ class _Projected:
     dmax: np.ndarray  # (S,)
     mat: dict  # material arrays, each (S,)
     angled: bool  # True when some rectangle is seen at a non-principal angle
+    n2: bool = True  # True when every row has the parabola exponent n = 2 (polynomial stress)
 
     def take(self, idx: np.ndarray) -> _Projected:
         """The rows ``idx`` (one per pair)."""
@@ -152,6 +153,7 @@ class _Projected:
             b=self.b[idx], h=self.h[idx], cos=self.cos[idx], sin=self.sin[idx],
             v=self.v[idx], t=self.t[idx], Au=self.Au[idx], A=self.A[idx], dmax=self.dmax[idx],
             mat={k: a[idx] for k, a in self.mat.items()}, angled=self.angled,
+            n2=self.n2 or bool(np.all(self.mat["n"][idx] == 2.0)),
         )
 
 
@@ -207,12 +209,14 @@ class SectionBatch:
             mat["ecu"] = np.array([x.eps_cu2 for x in c])
             mat["epiv"] = np.array([x.eps_c2 for x in c])
             mat["n"] = np.array([x.n for x in c])
+            mat["inv_epiv"] = 1.0 / mat["epiv"]
             self._n_is_2 = bool(np.all(mat["n"] == 2.0))
         else:
             mat["ecu"] = np.array([x.eps_cu3 for x in c])
             mat["epiv"] = np.array([x.eps_c3 for x in c])
             mat["fblock"] = np.array([x.eta * x.fcd for x in c])
             mat["ethr"] = np.array([(1.0 - x.lam) * x.eps_cu3 for x in c])
+            mat["n"] = np.full(S, 2.0)  # unused by the block; keeps the polynomial path
             self._n_is_2 = True
         self._horizontal = bool(np.all(mat["slope"] == 0.0))
         self.mat = mat
@@ -238,6 +242,7 @@ class SectionBatch:
             circ=self.circ, H=H, width=width, R=R, b=self.b, h=self.h, cos=cos, sin=sin,
             v=v, t=t, Au=Au, A=A, dmax=dmax, mat=self.mat,
             angled=not principal and bool(np.any(~self.circ)),
+            n2=self._n_is_2,
         )
 
     def _direction(self, axis: Axis, positive: bool = True) -> tuple[np.ndarray, np.ndarray]:
@@ -274,26 +279,39 @@ class SectionBatch:
         extra = (slice(None),) + (None,) * (eps.ndim - 1)
         if self.law is ConcreteLaw.RECTANGULAR_BLOCK:
             return np.where(eps >= mat["ethr"][extra], mat["fblock"][extra], 0.0)
-        r = np.clip(1.0 - eps / mat["epiv"][extra], 0.0, 1.0)
-        rn = r * r if n_is_2 else r ** mat["n"][extra]
-        return mat["fcd"][extra] * (1.0 - rn)
+        # fcd (1 - r^n) with r = 1 - eps/eps_c2 clipped to [0, 1]; in place to spare temporaries.
+        r = eps * mat["inv_epiv"][extra]
+        np.subtract(1.0, r, out=r)
+        np.maximum(r, 0.0, out=r)
+        np.minimum(r, 1.0, out=r)
+        if n_is_2:
+            r *= r
+        else:
+            np.power(r, mat["n"][extra], out=r)
+        np.subtract(1.0, r, out=r)
+        r *= mat["fcd"][extra]
+        return r
 
     def _forces(
         self, Q: _Projected, eps_top: np.ndarray, kappa: np.ndarray, moments: bool = True
     ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         """Axial force N (N) and moments S_t, S_u (N mm) for one strain profile per row."""
         Nc, St, Su = self._concrete(Q, eps_top, kappa, moments)
-        eps = eps_top[:, None] - kappa[:, None] * Q.v
+        eps = kappa[:, None] * Q.v
+        np.subtract(eps_top[:, None], eps, out=eps)
         mat = Q.mat
         if self._horizontal:
-            sig = np.clip(mat["Es"][:, None] * eps, -mat["fyd"][:, None], mat["fyd"][:, None])
+            fy = mat["fyd"][:, None]
+            sig = eps * mat["Es"][:, None]
+            np.minimum(sig, fy, out=sig)
+            np.maximum(sig, -fy, out=sig)
         else:
             a = np.abs(eps)
             eyd = (mat["fyd"] / mat["Es"])[:, None]
             sig = np.copysign(
                 np.where(a <= eyd, mat["Es"][:, None] * a,
                          mat["fyd"][:, None] + mat["slope"][:, None] * (a - eyd)), eps)
-        sig = sig - self._concrete_stress(eps, mat, self._n_is_2)  # displaced concrete
+        sig -= self._concrete_stress(eps, mat, Q.n2)  # displaced concrete
         F = Q.A * sig
         N = Nc + F.sum(axis=1)
         if not moments:
@@ -351,10 +369,10 @@ class SectionBatch:
         N = f * w * v1
         St = f * w * (0.5 * H * v1 - 0.5 * v1 * v1)
         if self.law is ConcreteLaw.PARABOLA_RECTANGLE:
-            tau, wt, jac = _parabola_nodes(self._n_is_2, 2)
+            tau, wt, jac = _parabola_nodes(Q.n2, 2)
             L = v0 - v1
             vg = v1[:, None] + L[:, None] * tau
-            sig = self._concrete_stress(eps_top[:, None] - kappa[:, None] * vg, Q.mat, self._n_is_2)
+            sig = self._concrete_stress(eps_top[:, None] - kappa[:, None] * vg, Q.mat, Q.n2)
             wts = wt * jac
             N = N + w * L * (sig @ wts)
             St = St + w * L * ((sig * (0.5 * H[:, None] - vg)) @ wts)
@@ -371,12 +389,12 @@ class SectionBatch:
         St = f * (2.0 / 3.0) * R**3 * s1**3
         if self.law is ConcreteLaw.PARABOLA_RECTANGLE:
             a0 = np.arccos(np.clip(1.0 - v0 / R, -1.0, 1.0))
-            tau, wt, jac = _parabola_nodes(self._n_is_2, 10)
+            tau, wt, jac = _parabola_nodes(Q.n2, 10)
             L = a0 - a1
             ag = a1[:, None] + L[:, None] * tau
             ca, sa = np.cos(ag), np.sin(ag)
             vg = R[:, None] * (1.0 - ca)
-            sig = self._concrete_stress(eps_top[:, None] - kappa[:, None] * vg, Q.mat, self._n_is_2)
+            sig = self._concrete_stress(eps_top[:, None] - kappa[:, None] * vg, Q.mat, Q.n2)
             dA = 2.0 * (R * R)[:, None] * sa * sa
             wts = wt * jac
             N = N + L * ((sig * dA) @ wts)
@@ -391,7 +409,7 @@ class SectionBatch:
         bc, hs = Q.b * c, Q.h * s
         breaks = np.stack([np.zeros_like(H), np.minimum(bc, hs), np.maximum(bc, hs), H, v1, v0], axis=1)
         breaks.sort(axis=1)
-        x, wg = _gauss(3 if self._n_is_2 else 12)
+        x, wg = _gauss(3 if Q.n2 else 12)
         lo, hi = breaks[:, :-1], breaks[:, 1:]
         half = 0.5 * (hi - lo)
         vg = (0.5 * (hi + lo))[:, :, None] + half[:, :, None] * x  # (P, pieces, G)
@@ -401,7 +419,7 @@ class SectionBatch:
         wdt = umax - umin
         q = 0.5 * (umax * umax - umin * umin)
         eps = eps_top[:, None] - kappa[:, None] * vflat
-        sig = self._concrete_stress(eps, Q.mat, self._n_is_2)
+        sig = self._concrete_stress(eps, Q.mat, Q.n2)
         weight = (half[:, :, None] * wg).reshape(P, -1)
         N = (sig * wdt * weight).sum(axis=1)
         St = (sig * wdt * (0.5 * H[:, None] - vflat) * weight).sum(axis=1)
@@ -514,11 +532,13 @@ class SectionBatch:
             raise ValueError(msg)
         P, N_tab = self._table(axis, positive)
         out = np.zeros(len(NEd))
+        # Pairs whose concrete has n = 2 first: chunks stay on the polynomial path.
+        order = np.argsort(self.mat["n"][idx] != 2.0, kind="stable")
 
         def work(start: int) -> None:
-            sl = slice(start, start + chunk)
-            _, St, _ = self._solve(P, N_tab, idx[sl], NEd[sl])
-            out[sl] = np.abs(St)
+            sel = order[start:start + chunk]
+            _, St, _ = self._solve(P, N_tab, idx[sel], NEd[sel])
+            out[sel] = np.abs(St)
 
         starts = range(0, len(NEd), chunk)
         if workers > 1 and len(NEd) > chunk:
