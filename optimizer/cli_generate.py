@@ -62,7 +62,6 @@ def add_parser(subparsers: argparse._SubParsersAction) -> argparse.ArgumentParse
     p.add_argument("--trial-size-mm", type=_positive_float, nargs=2, metavar=("B_MM", "H_MM"),
                    default=list(d.trial_size_mm), help="trial column section b h, mm")
     p.add_argument("--force", action="store_true", help="overwrite FILE if it exists")
-    p.set_defaults(func=run)
     return p
 
 

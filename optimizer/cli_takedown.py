@@ -65,7 +65,6 @@ def add_parser(subparsers: argparse._SubParsersAction) -> argparse.ArgumentParse
     p.add_argument("--out", metavar="DIR", required=True, help="output directory")
     p.add_argument("--no-plans", action="store_true", help="do not draw the plan pictures")
     p.add_argument("--quiet", action="store_true", help="no progress display")
-    p.set_defaults(func=run)
     return p
 
 

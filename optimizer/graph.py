@@ -59,6 +59,8 @@ def build_stack_graph(scenario: Scenario) -> nx.DiGraph:
 
 def check_acyclic(graph: nx.DiGraph, source: str = "<graph>") -> None:
     """Raise an InputError naming the cycle when the graph has one."""
+    if nx.is_directed_acyclic_graph(graph):
+        return
     try:
         cycle = nx.find_cycle(graph)
     except nx.NetworkXNoCycle:

@@ -296,9 +296,12 @@ class TakedownOptions:
     imposed_reduction: ImposedReduction
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, eq=False)
 class Scenario:
-    """A validated building scenario. All lookups are by name; nothing is mutable."""
+    """A validated building scenario. All lookups are by name; nothing is mutable.
+
+    Compared and hashed by identity (usable as a cache key).
+    """
 
     source: str
     project: Project
@@ -351,9 +354,16 @@ class Scenario:
         """The floor plate of a level (None on the actions-CSV route)."""
         return self._floor_by_level.get(level)
 
+    @cached_property
+    def _cells_by_level(self) -> dict[str, tuple[Cell, ...]]:
+        out: dict[str, list[Cell]] = {lv.name: [] for lv in self.levels}
+        for c in self.cells:
+            out[c.level].append(c)
+        return {k: tuple(v) for k, v in out.items()}
+
     def cells_at(self, level: str) -> tuple[Cell, ...]:
         """The cells of one level, in stack order."""
-        return tuple(c for c in self.cells if c.level == level)
+        return self._cells_by_level[level]
 
     def stack_levels(self, stack_id: str) -> tuple[str, ...]:
         """The levels a stack runs through, bottom to top."""
@@ -390,7 +400,11 @@ class _Table:
         self.used.add(name)
         if name not in self.data:
             if required:
-                raise InputError(self.file, self.key(name), None, "a required key is missing")
+                close = difflib.get_close_matches(name, [str(k) for k in self.data], n=1,
+                                                  cutoff=0.6)
+                hint = f" (found {close[0]!r}: a misspelling?)" if close else ""
+                raise InputError(self.file, self.key(name), None,
+                                 f"a required key is missing{hint}")
             return _MISSING
         return self.data[name]
 
@@ -449,6 +463,9 @@ class _Table:
         for name in self.data:
             if name not in self.used:
                 hint = _suggest(name, self.used)
+                if self.path and name in TOP_LEVEL_KEYS:
+                    hint += (f"; a top-level {name!r} must come before the first [table] "
+                             "header (TOML puts later keys into that table)")
                 known = ", ".join(sorted(self.used))
                 raise InputError(self.file, self.key(name), self.data[name],
                                  f"unknown key{hint} (known keys here: {known})")

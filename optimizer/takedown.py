@@ -635,7 +635,8 @@ def _notes(scenario: Scenario) -> tuple[str, ...]:
         "fixed-end moments w L^2/12 with full design load on one side and design permanent "
         "load on the other (EN 1992-1-1, 5.1.3(1)P); the out-of-balance moment is shared "
         "between the columns above and below by I/L, slab stiffness halved; edge and corner "
-        "columns take the whole edge-span moment; cantilever moments are ignored.",
+        "columns take the whole edge-span moment; cantilever moments are ignored; the limit "
+        "on moment transfer to flat-slab edge columns (EN 1992-1-1, Annex I) is not applied.",
         "Moments are magnitudes reported with the same sign at both ends (single curvature, "
         "the conservative case for EN 1992-1-1, 5.8.3.1); at a foundation or transfer the "
         "column base takes no sub-frame moment. Minimum eccentricity and imperfections are "
