@@ -20,6 +20,7 @@ __all__ = ["main", "build_parser"]
 
 _COMMAND_MODULES = (
     "optimizer.cli_section",
+    "optimizer.cli_check",
     "optimizer.cli_takedown",
     "optimizer.cli_generate",
 )

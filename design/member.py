@@ -1,0 +1,648 @@
+"""The full EC2 check of a column in one storey, for many (cell, candidate) pairs at once.
+
+One implementation serves both the building optimiser (thousands of pairs in
+one call) and the single-column calculation sheet: :func:`check_members`
+works on arrays, and :func:`check_column` is a view of one row of it.
+
+What one check covers (EN 1992-1-1 unless stated):
+
+1. slenderness about each axis, lambda = l0/i, and lambda_lim of Eq. (5.13N)
+   with A, B, C from phi_ef, omega and rm when known (5.8.3.1);
+2. geometric imperfections ei = theta_i l0/2 (5.2) or l0/400, acting in the
+   one direction where they are most unfavourable (5.8.9(2)): both directions
+   are evaluated and the worse governs;
+3. first-order end moments M01, M02 with their signs, M0e (Eq. (5.32));
+4. the minimum moment NEd e0 with e0 = max(h/30, 20 mm) (6.1(4)), by default
+   about the axis carrying the imperfection, one axis at a time;
+5. second-order moments by the nominal curvature method (5.8.8) where
+   lambda > lambda_lim; Kr with omega of the candidate's own steel, so no
+   iteration is needed when checking a given design;
+6. biaxial bending (5.8.9): the criteria (5.38a), (5.38b), separate checks
+   when both hold, the interaction of Eq. (5.39) otherwise; and, on request,
+   a direction-exact check on the section's resistance surface;
+7. detailing (9.5.2, 9.5.3, 8.2), cover (4.4.1), fire (EN 1992-1-2 5.3.2,
+   method A) and the lap length of the starter bars (8.4, 8.7.3).
+
+Units: N, mm, MPa, N mm. Compression positive. End moments follow the
+moment-diagram convention of :mod:`design.slenderness` (same sign at both
+ends = single curvature).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass, field
+from enum import StrEnum
+
+import numpy as np
+from numpy.typing import ArrayLike
+
+from design import biaxial, cover, detailing, fire, laps, slenderness
+from design.biaxial import SectionShape
+from design.cover import ExposureClass
+from design.fire import MU_FI_DEFAULT, FireRating
+from design.params import EN_RECOMMENDED, NationalParameters
+from design.resistance import DesignSection, SectionBatch
+from design.results import CheckResult
+from design.sections import CircSection
+from design.slenderness import ImperfectionMethod
+
+__all__ = [
+    "MinEccentricity",
+    "BiaxialMethod",
+    "CheckSettings",
+    "ColumnActions",
+    "CheckColumn",
+    "MemberChecks",
+    "ColumnCheck",
+    "SectionData",
+    "check_members",
+    "check_column",
+    "SLENDERNESS_CAP",
+]
+
+# Beyond this slenderness the simplified methods of 5.8.8 are not relied on
+# here and the column is flagged (common practice; EN 1992-1-1 sets no limit).
+SLENDERNESS_CAP = 140.0
+
+
+class MinEccentricity(StrEnum):
+    """How the minimum moment NEd e0 of 6.1(4) is applied under biaxial bending."""
+
+    ONE_AXIS = "one-axis-at-a-time"  # with the imperfection, about one axis at a time
+    BOTH_AXES = "both-axes"  # about both axes together (more conservative)
+
+
+class BiaxialMethod(StrEnum):
+    """Which biaxial check decides pass/fail (both are always reported when computed)."""
+
+    EQ_5_39 = "5.39"  # EN 1992-1-1 Eq. (5.39) with the criteria of 5.38
+    EXACT = "exact"  # resultant moment against the resistance surface in its direction
+
+
+@dataclass(frozen=True)
+class CheckSettings:
+    """Options of the member check that are the same for every pair of one call.
+
+    Attributes:
+        imperfection: route for ei (5.2(7) inclination, or l0/400).
+        min_eccentricity: application of 6.1(4) under biaxial bending.
+        biaxial: method that decides the biaxial check.
+        exact_biaxial: compute the direction-exact utilisation (costly).
+        exposure: exposure class for the cover check (None: not checked).
+        fire: standard fire resistance (None: not checked).
+        mu_fi: degree of utilisation in fire (0.7 is the conservative value
+            EN 1992-1-2 5.3.2(3) allows).
+        aggregate: maximum aggregate size dg, mm.
+        working_life_100y: design working life of 100 years (Table 4.3N).
+        lapped: bars are lapped at the floor (As,max at laps, 9.5.2(3)).
+        slenderness_cap: flag columns above this slenderness.
+    """
+
+    imperfection: ImperfectionMethod = ImperfectionMethod.INCLINATION
+    min_eccentricity: MinEccentricity = MinEccentricity.ONE_AXIS
+    biaxial: BiaxialMethod = BiaxialMethod.EQ_5_39
+    exact_biaxial: bool = False
+    exposure: ExposureClass | None = None
+    fire: FireRating | None = None
+    mu_fi: float = MU_FI_DEFAULT
+    aggregate: float = 20.0
+    working_life_100y: bool = False
+    lapped: bool = True
+    slenderness_cap: float = SLENDERNESS_CAP
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "imperfection", ImperfectionMethod(self.imperfection))
+        object.__setattr__(self, "min_eccentricity", MinEccentricity(self.min_eccentricity))
+        object.__setattr__(self, "biaxial", BiaxialMethod(self.biaxial))
+        if self.exposure is not None:
+            object.__setattr__(self, "exposure", ExposureClass(self.exposure))
+        if self.fire is not None:
+            object.__setattr__(self, "fire", FireRating(self.fire))
+        if self.biaxial is BiaxialMethod.EXACT:
+            object.__setattr__(self, "exact_biaxial", True)
+        if not 0.0 <= self.mu_fi <= 1.0:
+            msg = f"mu_fi must lie between 0 and 1, got mu_fi={self.mu_fi}"
+            raise ValueError(msg)
+        if not self.aggregate > 0:
+            msg = f"aggregate size must be positive, got dg={self.aggregate} mm"
+            raise ValueError(msg)
+
+
+@dataclass(frozen=True)
+class ColumnActions:
+    """Actions and buckling data per pair (floats or arrays that broadcast).
+
+    Attributes:
+        NEd: design axial force, N (compression positive).
+        My_top, My_bot: first-order moments about y at the top and bottom, N mm.
+        Mz_top, Mz_bot: first-order moments about z at the top and bottom, N mm.
+        l0y: effective length for buckling about y (lever arm along h), mm.
+        l0z: effective length for buckling about z, mm.
+        l_clear: clear height, mm (alpha_h of 5.2(5), link counts); l0 when None.
+        l0_fi: effective length in fire, mm; None: max(l0y, l0z), which EN 1992-1-2
+            5.3.2(2) allows in all cases (braced structures may use less).
+        phi_ef: effective creep ratio; None: unknown (A = 0.7 in lambda_lim,
+            K_phi from phi_ef = 0 is then not conservative, so a value should be
+            given for slender columns; 2.0 is a common concept-stage figure).
+        moments_from_analysis: rm = M01/M02 may be used for C (braced members
+            whose end moments come from an analysis, 5.8.3.1(1)); else C = 0.7.
+    """
+
+    NEd: ArrayLike
+    My_top: ArrayLike = 0.0
+    My_bot: ArrayLike = 0.0
+    Mz_top: ArrayLike = 0.0
+    Mz_bot: ArrayLike = 0.0
+    l0y: ArrayLike = 3000.0
+    l0z: ArrayLike = 3000.0
+    l_clear: ArrayLike | None = None
+    l0_fi: ArrayLike | None = None
+    phi_ef: ArrayLike | None = None
+    moments_from_analysis: bool = True
+
+
+@dataclass
+class SectionData:
+    """Per-section geometry and material arrays of a batch (struct of arrays)."""
+
+    batch: SectionBatch
+    circ: np.ndarray
+    b: np.ndarray
+    h: np.ndarray
+    Ac: np.ndarray
+    As: np.ndarray
+    iy: np.ndarray
+    iz: np.ndarray
+    dy: np.ndarray
+    dz: np.ndarray
+    fck: np.ndarray
+    fcd: np.ndarray
+    fyk: np.ndarray
+    fyd: np.ndarray
+    Es: np.ndarray
+    cover: np.ndarray
+    link: np.ndarray
+    dia_max: np.ndarray
+    dia_min: np.ndarray
+    n_bars: np.ndarray
+    min_gap: np.ndarray
+    extra_ties: np.ndarray
+
+    @classmethod
+    def of(cls, batch: SectionBatch) -> SectionData:
+        """Collect the arrays of ``batch`` (one pass over its sections)."""
+        ds = batch.designs
+        secs = [d.section for d in ds]
+        circ = np.array([isinstance(s, CircSection) for s in secs])
+        b = np.array([s.b for s in secs], dtype=float)
+        h = np.array([s.h for s in secs], dtype=float)
+        iy = np.where(circ, h / 4.0, h / np.sqrt(12.0))
+        iz = np.where(circ, b / 4.0, b / np.sqrt(12.0))
+        ties = []
+        for s in secs:
+            if isinstance(s, CircSection):
+                ties.append(0)
+                continue
+            y, z, _ = s.bar_coords()
+            ties.append(_extra_ties_rect(y, z))
+        return cls(
+            batch=batch, circ=circ, b=b, h=h,
+            Ac=np.array([s.Ac for s in secs]), As=np.array([s.As for s in secs]),
+            iy=iy, iz=iz,
+            dy=np.array([s.effective_depth("y") for s in secs]),
+            dz=np.array([s.effective_depth("z") for s in secs]),
+            fck=np.array([d.concrete.fck for d in ds]), fcd=np.array([d.concrete.fcd for d in ds]),
+            fyk=np.array([d.steel.fyk for d in ds]), fyd=np.array([d.steel.fyd for d in ds]),
+            Es=np.array([d.steel.Es for d in ds]),
+            cover=np.array([s.cover for s in secs]), link=np.array([s.link for s in secs]),
+            dia_max=np.array([s.bars.max_dia for s in secs]),
+            dia_min=np.array([s.bars.min_dia for s in secs]),
+            n_bars=np.array([s.bars.count for s in secs]),
+            min_gap=np.array([float(np.min(s.clear_spacings())) for s in secs]),
+            extra_ties=np.array(ties),
+        )
+
+
+def _extra_ties_rect(y: np.ndarray, z: np.ndarray) -> int:
+    """Extra ties so that every bar lies within 150 mm of a restrained bar (9.5.3(6))."""
+    total = 0
+    for along, across in ((y, z), (z, y)):
+        for side in (across.max(), across.min()):
+            on_face = np.isclose(across, side, atol=20.0)
+            total += detailing.extra_ties_needed(np.sort(along[on_face]))
+    return total
+
+
+@dataclass(frozen=True)
+class CheckColumn:
+    """One named check over many pairs (arrays), with its clause."""
+
+    name: str
+    clause: str
+    unit: str
+    demand: np.ndarray
+    capacity: np.ndarray
+    applicable: np.ndarray
+    note: str | np.ndarray | Callable[[int], str] = ""
+
+    @property
+    def utilisation(self) -> np.ndarray:
+        """Demand / capacity per pair; inf where the method does not apply."""
+        with np.errstate(divide="ignore", invalid="ignore"):
+            u = np.where(self.capacity > 0, self.demand / np.where(self.capacity > 0, self.capacity, 1.0),
+                         np.where(self.demand > 0, np.inf, 0.0))
+        return np.where(self.applicable, u, np.inf)
+
+    def result(self, i: int) -> CheckResult:
+        """The check of pair ``i`` as a :class:`CheckResult`."""
+        if isinstance(self.note, str):
+            note = self.note
+        elif callable(self.note):
+            note = self.note(i)
+        else:
+            note = str(self.note[i])
+        return CheckResult(self.name, self.clause, float(self.demand[i]), float(self.capacity[i]),
+                           self.unit, note, bool(self.applicable[i]))
+
+
+@dataclass
+class MemberChecks:
+    """Results of :func:`check_members` (struct of arrays, one row per pair)."""
+
+    idx: np.ndarray
+    checks: list[CheckColumn]
+    values: dict[str, np.ndarray] = field(default_factory=dict)
+
+    @property
+    def utilisation_matrix(self) -> np.ndarray:
+        """(pairs, checks) utilisations."""
+        return np.stack([c.utilisation for c in self.checks], axis=1)
+
+    @property
+    def utilisation(self) -> np.ndarray:
+        """Largest utilisation per pair (inf where a method does not apply)."""
+        return self.utilisation_matrix.max(axis=1)
+
+    @property
+    def governing(self) -> np.ndarray:
+        """Index into ``checks`` of the governing check per pair.
+
+        Where NEd exceeds NRd the axial check governs: the bending checks then
+        have no resistance at all (MRd = 0), which says less.
+        """
+        gov = self.utilisation_matrix.argmax(axis=1)
+        axial = self.checks[0].utilisation
+        return np.where(axial > 1.0, 0, gov)
+
+    @property
+    def ok(self) -> np.ndarray:
+        """True where every check passes."""
+        return self.utilisation <= 1.0 + 1e-9
+
+    def column(self, i: int) -> ColumnCheck:
+        """The single-column view of pair ``i``."""
+        results = [c.result(i) for c in self.checks]
+        gov = results[int(self.governing[i])]
+        return ColumnCheck(
+            checks=results, governing=gov, ok=bool(self.ok[i]), utilisation=float(self.utilisation[i]),
+            values={k: (v[i].item() if isinstance(v, np.ndarray) else v) for k, v in self.values.items()},
+        )
+
+
+@dataclass(frozen=True)
+class ColumnCheck:
+    """The full check of one column in one storey."""
+
+    checks: list[CheckResult]
+    governing: CheckResult
+    ok: bool
+    utilisation: float
+    values: dict[str, float | bool | str]
+
+    def check(self, name: str) -> CheckResult:
+        """The check called ``name``."""
+        for c in self.checks:
+            if c.name == name:
+                return c
+        msg = f"no check named {name!r}"
+        raise KeyError(msg)
+
+
+def _b(x: ArrayLike | None, n: int) -> np.ndarray | None:
+    return None if x is None else np.broadcast_to(np.asarray(x, dtype=float), (n,)).copy()
+
+
+def _axis_moments(
+    NEd, M_top, M_bot, l0, i, h_e0, d, Ac, As, fck, fcd, fyd, Es, phi_ef, n, omega, ei_, with_imp,
+    with_e0, use_rm, params,
+):
+    """Design moment about one axis for one imperfection case (arrays; N, mm).
+
+    EN 1992-1-1, 5.8.8 with 5.8.3.1, 5.2(7) and 6.1(4).
+    """
+    lam = slenderness.slenderness(l0, i)
+    rm = slenderness.r_m(M_top, M_bot) if use_rm is not None else None
+    if rm is not None:
+        rm = np.where(use_rm, rm, 1.0)  # rm = 1 (C = 0.7) where not known
+    lim = slenderness.lambda_lim(n, phi_ef=phi_ef, omega=omega, r_m=rm, params=params)
+    M01, M02 = slenderness.first_order_end_moments(M_top, M_bot, NEd, ei_, with_imp)
+    e0 = np.where(with_e0, slenderness.e0_min(h_e0), 0.0)
+    phi = np.zeros_like(NEd) if phi_ef is None else phi_ef
+    kr = slenderness.Kr(np.maximum(n, 0.0), omega)
+    kphi = slenderness.Kphi(phi, fck, lam)
+    curv = slenderness.inv_r(kr, kphi, slenderness.inv_r0(slenderness.eps_yd(fyd, Es), d))
+    e2 = slenderness.e2(curv, l0)
+    slender = (lam > lim.lambda_lim) & (NEd > 0)
+    m2 = np.where(slender, slenderness.M2(NEd, e2), 0.0)
+    MEd = np.where(
+        slender,
+        slenderness.design_moment_second_order(NEd, M01, M02, m2, e0),
+        slenderness.design_moment_first_order(NEd, M02, e0),
+    )
+    return {
+        "lambda": lam, "lambda_lim": lim.lambda_lim, "A": lim.A * np.ones_like(NEd),
+        "B": lim.B * np.ones_like(NEd), "C": lim.C * np.ones_like(NEd), "M01": M01, "M02": M02,
+        "M0e": np.abs(slenderness.M0e(M01, M02)), "e0": slenderness.e0_min(h_e0),
+        "Kr": kr, "Kphi": kphi, "inv_r": curv, "e2": np.where(slender, e2, 0.0), "M2": m2,
+        "MEd": MEd, "slender": slender,
+    }
+
+
+def check_members(
+    batch: SectionBatch | SectionData,
+    idx: ArrayLike,
+    actions: ColumnActions,
+    settings: CheckSettings = CheckSettings(),
+    params: NationalParameters = EN_RECOMMENDED,
+) -> MemberChecks:
+    """Check many (cell, candidate) pairs at once.
+
+    EN 1992-1-1, 5.2, 5.8, 6.1, 8.2, 9.5 and 4.4.1; EN 1992-1-2, 5.3.2.
+
+    Args:
+        batch: the candidate sections (a SectionBatch, or its SectionData to
+            reuse the collected arrays).
+        idx: section index per pair.
+        actions: the actions per pair (broadcast to the number of pairs).
+        settings: options shared by all pairs.
+        params: national parameters.
+
+    Returns:
+        MemberChecks with one row per pair.
+    """
+    data = batch if isinstance(batch, SectionData) else SectionData.of(batch)
+    sb = data.batch
+    idx = np.asarray(idx, dtype=int).ravel()
+    n_pairs = len(idx)
+    NEd = _b(actions.NEd, n_pairs)
+    g = {k: getattr(data, k)[idx] for k in (
+        "circ", "b", "h", "Ac", "As", "iy", "iz", "dy", "dz", "fck", "fcd", "fyk", "fyd", "Es",
+        "cover", "link", "dia_max", "dia_min", "n_bars", "min_gap", "extra_ties")}
+    l0y, l0z = _b(actions.l0y, n_pairs), _b(actions.l0z, n_pairs)
+    if np.any(l0y <= 0) or np.any(l0z <= 0):
+        msg = "effective lengths l0y, l0z must be positive (mm)"
+        raise ValueError(msg)
+    l_clear = _b(actions.l_clear, n_pairs)
+    phi_ef = _b(actions.phi_ef, n_pairs)
+    moments = {k: _b(getattr(actions, k), n_pairs) for k in ("My_top", "My_bot", "Mz_top", "Mz_bot")}
+
+    n = NEd / (g["Ac"] * g["fcd"])
+    omega = g["As"] * g["fyd"] / (g["Ac"] * g["fcd"])
+    ei_y = slenderness.ei(l0y, settings.imperfection, l=l_clear, params=params)
+    ei_z = slenderness.ei(l0z, settings.imperfection, l=l_clear, params=params)
+    use_rm = (np.abs(np.maximum(np.abs(moments["My_top"]), np.abs(moments["My_bot"]))) > 0) \
+        if actions.moments_from_analysis else None
+    use_rm_z = (np.maximum(np.abs(moments["Mz_top"]), np.abs(moments["Mz_bot"])) > 0) \
+        if actions.moments_from_analysis else None
+    both = settings.min_eccentricity is MinEccentricity.BOTH_AXES
+
+    # Resistances at NEd (independent of the imperfection case).
+    MRdy = sb.moment_resistance(NEd, "y", idx)
+    MRdz = sb.moment_resistance(NEd, "z", idx)
+    NRd = sb.NRd()[idx]
+    NRd_a = g["Ac"] * g["fcd"] + g["As"] * g["fyd"]  # as defined for Eq. (5.39) in 5.8.9(4)
+    shape = np.where(g["circ"], "circular", "rectangular")
+    a_exp = np.where(g["circ"], 2.0,
+                     biaxial.exponent_a(np.maximum(NEd, 0.0), NRd_a, SectionShape.RECTANGULAR))
+
+    common = dict(NEd=NEd, Ac=g["Ac"], As=g["As"], fck=g["fck"], fcd=g["fcd"], fyd=g["fyd"], Es=g["Es"],
+                  phi_ef=phi_ef, n=n, omega=omega, params=params)
+    cases = []
+    for imp_on_y in (True, False):
+        ay = _axis_moments(M_top=moments["My_top"], M_bot=moments["My_bot"], l0=l0y, i=g["iy"], h_e0=g["h"],
+                           d=g["dy"], ei_=ei_y, with_imp=imp_on_y, with_e0=imp_on_y or both,
+                           use_rm=use_rm, **common)
+        az = _axis_moments(M_top=moments["Mz_top"], M_bot=moments["Mz_bot"], l0=l0z, i=g["iz"], h_e0=g["b"],
+                           d=g["dz"], ei_=ei_z, with_imp=not imp_on_y, with_e0=(not imp_on_y) or both,
+                           use_rm=use_rm_z, **common)
+        uy = _ratio(ay["MEd"], MRdy)
+        uz = _ratio(az["MEd"], MRdz)
+        crit_a = biaxial.slenderness_ratio_ok(ay["lambda"], az["lambda"])
+        with np.errstate(divide="ignore", invalid="ignore"):
+            ey = az["MEd"] / np.where(NEd > 0, NEd, 1.0)
+            ez = ay["MEd"] / np.where(NEd > 0, NEd, 1.0)
+            ry, rz = ey / (g["iz"] * np.sqrt(12.0)), ez / (g["iy"] * np.sqrt(12.0))
+            crit_b = (np.minimum(ry, rz) <= 0.2 * np.maximum(ry, rz)) | (NEd <= 0)
+        separate = crit_a & crit_b
+        inter = np.where(separate, 0.0, uz ** a_exp + uy ** a_exp)
+        worst = np.maximum.reduce([uy, uz, inter])
+        cases.append({"y": ay, "z": az, "uy": uy, "uz": uz, "crit_a": crit_a, "crit_b": crit_b,
+                      "separate": separate, "inter": inter, "worst": worst})
+    pick_y = cases[0]["worst"] >= cases[1]["worst"]
+
+    def sel(key, sub=None):
+        c0 = cases[0][key] if sub is None else cases[0][sub][key]
+        c1 = cases[1][key] if sub is None else cases[1][sub][key]
+        return np.where(pick_y, c0, c1)
+
+    MEdy, MEdz = sel("MEd", "y"), sel("MEd", "z")
+    separate = sel("separate")
+    inter = sel("inter")
+    values: dict[str, np.ndarray] = {
+        "NEd": NEd, "NRd": NRd, "NRd_5_39": NRd_a, "MRdy": MRdy, "MRdz": MRdz, "MEdy": MEdy, "MEdz": MEdz,
+        "n": n, "omega": omega, "ei_y": ei_y * np.ones(n_pairs), "ei_z": ei_z * np.ones(n_pairs),
+        "imperfection_axis": np.where(pick_y, "y", "z"), "a": a_exp, "criterion_5_38a": sel("crit_a"),
+        "criterion_5_38b": sel("crit_b"), "separate_checks": separate, "interaction_5_39": inter,
+        "l0y": l0y, "l0z": l0z, "shape": shape,
+    }
+    for ax in ("y", "z"):
+        for key in ("lambda", "lambda_lim", "A", "B", "C", "M01", "M02", "M0e", "e0", "Kr", "Kphi", "inv_r",
+                    "e2", "M2", "slender"):
+            values[f"{key}_{ax}"] = sel(key, ax)
+    values["A_default"] = np.full(n_pairs, phi_ef is None)
+    values["C_default"] = np.full(n_pairs, not actions.moments_from_analysis)
+
+    ones = np.ones(n_pairs, dtype=bool)
+    checks = [
+        CheckColumn("axial resistance", "EN 1992-1-1, 6.1", "kN", NEd / 1e3, NRd / 1e3, ones,
+                    "NRd by strain compatibility, uniform strain eps_c2 (6.1(5))"),
+        CheckColumn("bending about y", "EN 1992-1-1, 5.8.9(3), 6.1", "kNm", MEdy / 1e6, MRdy / 1e6, ones,
+                    "MEdy <= MRdy at NEd"),
+        CheckColumn("bending about z", "EN 1992-1-1, 5.8.9(3), 6.1", "kNm", MEdz / 1e6, MRdz / 1e6, ones,
+                    "MEdz <= MRdz at NEd"),
+        CheckColumn("biaxial interaction", "EN 1992-1-1, 5.8.9(4), Eq. (5.39)", "-", inter, np.ones(n_pairs),
+                    ones, np.where(separate, "not required: criteria (5.38a) and (5.38b) met",
+                                   "(MEdz/MRdz)^a + (MEdy/MRdy)^a <= 1")),
+    ]
+    if settings.exact_biaxial:
+        u_exact = _exact_biaxial(sb, idx, NEd, MEdy, MEdz)
+        values["utilisation_exact"] = u_exact
+        if settings.biaxial is BiaxialMethod.EXACT:
+            checks[3] = CheckColumn("biaxial, direction-exact", "EN 1992-1-1, 6.1 (resistance surface)", "-",
+                                    u_exact, np.ones(n_pairs), ones,
+                                    "resultant MEd against MRd in its direction at NEd")
+    lam_max = np.maximum(values["lambda_y"], values["lambda_z"])
+    checks.append(CheckColumn("slenderness within range of method", "EN 1992-1-1, 5.8.8 (limit: common practice)",
+                              "-", lam_max, np.full(n_pairs, settings.slenderness_cap), ones,
+                              f"lambda above {settings.slenderness_cap:g} is flagged"))
+    checks += _detailing_checks(g, NEd, settings, params)
+    if settings.exposure is not None:
+        checks += _cover_checks(g, settings, params)
+    if settings.fire is not None:
+        l0_fi = _b(actions.l0_fi, n_pairs)
+        values["l0_fi"] = np.maximum(l0y, l0z) if l0_fi is None else l0_fi
+        checks.append(_fire_check(g, NEd, values, settings, params))
+
+    # Quantities that feed the schedule (not pass/fail).
+    values["lap_length"] = laps.lap_length(g["dia_max"], g["fck"], g["fyk"], params=params)
+    values["scl_max"] = detailing.scl_tmax(g["dia_min"], np.minimum(g["b"], g["h"]), False, params)
+    values["scl_reduced"] = detailing.scl_tmax(g["dia_min"], np.minimum(g["b"], g["h"]), True, params)
+    values["extra_ties"] = g["extra_ties"]
+    return MemberChecks(idx=idx, checks=checks, values=values)
+
+
+def _ratio(demand: np.ndarray, capacity: np.ndarray) -> np.ndarray:
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return np.where(capacity > 0, demand / np.where(capacity > 0, capacity, 1.0),
+                        np.where(demand > 0, np.inf, 0.0))
+
+
+def _detailing_checks(g: dict, NEd: np.ndarray, settings: CheckSettings, params: NationalParameters):
+    n_pairs = len(NEd)
+    ones = np.ones(n_pairs, dtype=bool)
+    as_min = detailing.As_min(np.maximum(NEd, 0.0), g["fyd"], g["Ac"], params)
+    out = [
+        CheckColumn("minimum bar diameter", "EN 1992-1-1, 9.5.2(1)", "mm",
+                    np.full(n_pairs, params.phi_min_long), g["dia_min"], ones, "phi >= phi_min"),
+        CheckColumn("minimum longitudinal reinforcement", "EN 1992-1-1, 9.5.2(2)", "mm2", as_min, g["As"], ones,
+                    "As,min = max(0.10 NEd/fyd, 0.002 Ac)"),
+        CheckColumn("maximum longitudinal reinforcement", "EN 1992-1-1, 9.5.2(3)", "mm2", g["As"],
+                    detailing.As_max(g["Ac"], False, params), ones, "As <= 0.04 Ac outside laps"),
+    ]
+    if settings.lapped:
+        out.append(CheckColumn("maximum reinforcement at laps", "EN 1992-1-1, 9.5.2(3)", "mm2", 2.0 * g["As"],
+                               detailing.As_max(g["Ac"], True, params), ones,
+                               "all bars lapped at one section: 2 As <= 0.08 Ac"))
+    n_min = np.where(g["circ"], 6.0, 4.0)
+    spacing = np.maximum.reduce([params.k1_spacing * g["dia_max"],
+                                 np.full(n_pairs, settings.aggregate + params.k2_spacing_mm),
+                                 np.full(n_pairs, 20.0)])
+    out += [
+        CheckColumn("number of bars", "EN 1992-1-1, 9.5.2(4)", "bars", n_min, g["n_bars"].astype(float), ones,
+                    "at least 4 bars (rectangular), 6 (circular)"),
+        CheckColumn("clear spacing of bars", "EN 1992-1-1, 8.2(2)", "mm", spacing, np.maximum(g["min_gap"], 0.0),
+                    ones, f"max(k1 phi, dg + k2, 20 mm), dg = {settings.aggregate:g} mm"),
+        CheckColumn("link diameter", "EN 1992-1-1, 9.5.3(1)", "mm", detailing.link_dia_min(g["dia_max"]), g["link"],
+                    ones, "max(6 mm, phi_max/4)"),
+    ]
+    return out
+
+
+def _cover_checks(g: dict, settings: CheckSettings, params: NationalParameters):
+    exp = settings.exposure
+    s_cls = cover.structural_class(exp, g["fck"], settings.working_life_100y, False, False, params)
+    dur = cover.cmin_dur(exp, s_cls)
+    req_link = cover.cnom(cover.cmin(cover.cmin_b(g["link"], settings.aggregate), dur, params), params)
+    req_main = cover.cnom(cover.cmin(cover.cmin_b(g["dia_max"], settings.aggregate), dur, params), params)
+    ones = np.ones(len(g["b"]), dtype=bool)
+    note = np.array([f"{exp.value}, S{int(s)}, cmin,dur = {d:g} mm" for s, d in zip(s_cls, dur, strict=True)])
+    return [
+        CheckColumn("nominal cover to links", "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)", "mm", req_link,
+                    g["cover"], ones, note),
+        CheckColumn("nominal cover to main bars", "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)", "mm", req_main,
+                    g["cover"] + g["link"], ones, note),
+    ]
+
+
+def _fire_check(g: dict, NEd: np.ndarray, values: dict, settings: CheckSettings, params: NationalParameters):
+    """EN 1992-1-2 Table 5.2a (method A), vectorised over pairs for one rating."""
+    rating = settings.fire
+    n_pairs = len(NEd)
+    a = fire.axis_distance(g["cover"], g["link"], g["dia_max"])
+    width = np.minimum(g["b"], g["h"])
+    l0_fi = values["l0_fi"]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        Npos = np.where(NEd > 0, NEd, np.inf)
+        # First-order eccentricities in fire, taken as the ULS first-order ones (imperfection excluded).
+        e_z = np.maximum(np.abs(values["M02_y"]) - values["ei_y"] * np.maximum(NEd, 0) *
+                         (values["imperfection_axis"] == "y"), 0.0) / Npos
+        e_y = np.maximum(np.abs(values["M02_z"]) - values["ei_z"] * np.maximum(NEd, 0) *
+                         (values["imperfection_axis"] == "z"), 0.0) / Npos
+    kmax = params.e_max_fire_factor
+    bad = np.stack([l0_fi > fire.L0_FI_MAX_TABLE_MM, e_z > kmax * g["h"], e_y > kmax * g["b"],
+                    g["As"] >= fire.RHO_MAX_FIRE * g["Ac"]], axis=1)
+    cond = ~bad.any(axis=1)
+    col = next(m for m in (0.2, 0.5, 0.7) if settings.mu_fi <= m + 1e-12) if settings.mu_fi <= 0.7 else None
+    options = fire.TABLE_5_2A[rating][col] if col is not None else []
+    demand = np.full(n_pairs, np.inf)
+    for bmin, amin, needs8 in options:
+        usable = (width >= bmin) & ((g["n_bars"] >= 8) | (not needs8))
+        demand = np.where(usable, np.minimum(demand, amin), demand)
+    applicable = cond & bool(options)
+
+    def reasons(i: int) -> str:
+        if not options:
+            return f"Table 5.2a gives no value for {rating.name} at mu_fi = {settings.mu_fi:g}"
+        if cond[i]:
+            if np.isfinite(demand[i]):
+                return f"axis distance a = c + phi_link + phi/2; mu_fi column {col}, width {width[i]:g} mm"
+            return "section narrower than every bmin of Table 5.2a (or fewer than 8 bars)"
+        why = [f"l0,fi = {l0_fi[i]:,.0f} mm > 3000 mm", f"e = {e_z[i]:.0f} mm > {kmax:g} h",
+               f"e = {e_y[i]:.0f} mm > {kmax:g} b", "As >= 0.04 Ac"]
+        return "method A does not apply: " + "; ".join(w for w, b in zip(why, bad[i], strict=True) if b)
+
+    dem = np.where(np.isfinite(demand), demand, 1e6)
+    return CheckColumn(f"fire resistance {rating.name}", "EN 1992-1-2, 5.3.2, Table 5.2a", "mm", dem, a,
+                       applicable, reasons)
+
+
+def _exact_biaxial(sb: SectionBatch, idx: np.ndarray, NEd: np.ndarray, MEdy: np.ndarray,
+                   MEdz: np.ndarray) -> np.ndarray:
+    """Utilisation |MEd| / |MRd| with MRd on the resistance surface in the direction of MEd.
+
+    EN 1992-1-1, 6.1: the compression direction theta is found by bisection
+    so that the resisting moment (MRdy, MRdz) points along (MEdy, MEdz);
+    the sections are doubly symmetric, so the first quadrant suffices.
+    """
+    target = np.arctan2(np.abs(MEdz), np.abs(MEdy))  # angle of the demand from the y axis
+    lo = np.zeros(len(idx))
+    hi = np.full(len(idx), np.pi / 2)
+    my = mz = None
+    for _ in range(40):
+        mid = 0.5 * (lo + hi)
+        # theta measured from +y: theta = pi/2 compresses +z (pure MRdy).
+        ok, my, mz = sb.resistance_at_angle(NEd, np.pi / 2 - mid, idx)
+        ang = np.arctan2(np.abs(mz), np.abs(my))
+        go_up = ang < target
+        lo = np.where(go_up, mid, lo)
+        hi = np.where(go_up, hi, mid)
+    mres = np.hypot(my, mz)
+    demand = np.hypot(MEdy, MEdz)
+    return np.where(ok & (mres > 0), demand / np.where(mres > 0, mres, 1.0), np.where(demand > 0, np.inf, 0.0))
+
+
+def check_column(
+    design: DesignSection,
+    actions: ColumnActions,
+    settings: CheckSettings = CheckSettings(),
+    params: NationalParameters = EN_RECOMMENDED,
+) -> ColumnCheck:
+    """The full check of one column: a view of :func:`check_members` for one pair."""
+    res = check_members(SectionBatch([design]), np.array([0]), actions, settings, params)
+    return res.column(0)
+
+
+def batch_of(designs: Sequence[DesignSection]) -> SectionData:
+    """SectionData for a list of designs (convenience)."""
+    return SectionData.of(SectionBatch(designs))
