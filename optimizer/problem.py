@@ -1,0 +1,133 @@
+"""The scheduling problem handed from the feasibility matrix to the integer program.
+
+Plain data only (numpy arrays and tuples), so the integer program, the
+heuristics, the brute-force tests and the independent rule checker can all be
+written against it without knowing how the matrix was computed.
+
+Vocabulary:
+
+* a *cell* is one column in one storey (stack, level);
+* a *type* is a column type: section (shape and size), bar set, links and
+  concrete grade; its *section* is the formwork (shape and size only);
+* a *candidate* is a feasible (cell, type, orientation) triple: the type passes
+  every check in that cell when placed in that orientation. Orientation 0
+  keeps the section's local y axis along the stack's default direction;
+  orientation 1 turns it by 90 degrees (only for stacks whose orientation is
+  free, and only for non-square rectangles). A stack keeps one orientation.
+
+Units: mm for sizes, kg for steel, the scenario's currency for cost, kgCO2e
+for carbon.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from enum import StrEnum
+
+import numpy as np
+
+__all__ = ["Objective", "StepRule", "Rules", "TypeTable", "ScheduleProblem", "Schedule"]
+
+
+class Objective(StrEnum):
+    """What the integer program minimises."""
+
+    STEEL = "steel"
+    COST = "cost"
+    CARBON = "carbon"
+
+
+class StepRule(StrEnum):
+    """What happens when a section shrinks by more than ``max_step_mm`` per face between storeys."""
+
+    LIMIT = "limit"  # larger steps are not allowed
+    STARTERS = "starters"  # allowed, with separate starter bars whose mass is added
+    FORBID_ANY = "forbid-any"  # no change of section at all along a stack
+
+
+@dataclass(frozen=True)
+class Rules:
+    """Buildability rules of a schedule (each on by default)."""
+
+    monotone_sections: bool = True  # b and h never grow going up; circles stay circles
+    monotone_bars: bool = True  # bars per face and bar diameters never grow going up
+    monotone_grade: bool = True  # concrete grade never rises going up
+    max_step_mm: float = 75.0  # largest reduction per face between storeys
+    step_rule: StepRule = StepRule.LIMIT
+    min_run: int = 1  # storeys a section holds at least (except at the top of a stack)
+    max_types: int | None = None  # cap on distinct types building-wide
+    max_sections: int | None = None  # cap on distinct sections building-wide
+    price_per_type: float = 0.0  # objective units per distinct type
+    price_per_section: float = 0.0  # objective units per distinct section
+    groups: tuple[tuple[str, ...], ...] = ()  # stacks that take identical types level by level
+    pinned: tuple[tuple[int, int], ...] = ()  # (cell index, type index) fixed by the user
+
+
+@dataclass(frozen=True)
+class TypeTable:
+    """Attributes of the column types (arrays of length n_types)."""
+
+    mark: tuple[str, ...]  # label, e.g. "C12"
+    circ: np.ndarray  # bool
+    b: np.ndarray  # mm (diameter for circles)
+    h: np.ndarray  # mm (diameter for circles)
+    nb: np.ndarray  # bars on each b-face (circles: total bar count)
+    nh: np.ndarray  # bars on each h-face (circles: 0)
+    dia: np.ndarray  # main bar diameter, mm
+    corner_dia: np.ndarray  # corner bar diameter, mm (= dia when not mixed)
+    fck: np.ndarray  # concrete strength, MPa
+    section: np.ndarray  # section id (same shape and size -> same id)
+    starter_kg_per_m: np.ndarray = field(default_factory=lambda: np.zeros(0))  # bar mass per metre of lap
+
+    def __len__(self) -> int:
+        return len(self.mark)
+
+
+@dataclass(frozen=True)
+class ScheduleProblem:
+    """One building's choice: a type (and orientation) for every cell.
+
+    Cells are indexed 0..n_cells-1; ``above[c]`` is the cell directly above c
+    in the same stack (-1 at the top of a stack); ``stack[c]`` the stack index.
+    Candidates are given as parallel arrays of length n_candidates.
+    """
+
+    cell_names: tuple[tuple[str, str], ...]  # (stack, level)
+    stack_names: tuple[str, ...]
+    stack: np.ndarray  # (n_cells,) stack index
+    above: np.ndarray  # (n_cells,) index of the cell above, -1 at the top
+    stack_free: np.ndarray  # (n_stacks,) bool: orientation left to the optimiser
+    types: TypeTable
+    cand_cell: np.ndarray  # (n_cand,) cell index
+    cand_type: np.ndarray  # (n_cand,) type index
+    cand_orient: np.ndarray  # (n_cand,) 0 or 1
+    steel_kg: np.ndarray  # (n_cand,) main bars incl. lap + links, kg
+    cost: np.ndarray  # (n_cand,)
+    carbon: np.ndarray  # (n_cand,)
+    utilisation: np.ndarray  # (n_cand,)
+    rules: Rules = Rules()
+    objective: Objective = Objective.STEEL
+    storey_height_mm: np.ndarray = field(default_factory=lambda: np.zeros(0))  # (n_cells,) for starter bars
+
+    @property
+    def n_cells(self) -> int:  # noqa: D102
+        return len(self.cell_names)
+
+    def weight(self) -> np.ndarray:
+        """Objective coefficient per candidate."""
+        return {Objective.STEEL: self.steel_kg, Objective.COST: self.cost, Objective.CARBON: self.carbon}[
+            Objective(self.objective)]
+
+
+@dataclass(frozen=True)
+class Schedule:
+    """A solution: one candidate per cell, with the solver's account of it."""
+
+    cand: np.ndarray  # (n_cells,) candidate index chosen for each cell
+    status: str  # "optimal", "time limit", "heuristic", ...
+    objective: float
+    bound: float
+    gap: float  # relative gap proven by the solver (0 when optimal)
+    solver: str
+    seconds: float
+    notes: tuple[str, ...] = ()
