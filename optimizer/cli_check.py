@@ -124,7 +124,7 @@ def parse_check_spec(data: dict, path: str):
             raise InputError(path, "fire", data["fire"], "one of R30, R60, R90, R120, R180, R240") from None
     settings = CheckSettings(
         imperfection=_enum(path, "imperfection", data.get("imperfection", "inclination"), ImperfectionMethod),
-        min_eccentricity=_enum(path, "min_eccentricity", data.get("min_eccentricity", "one-axis-at-a-time"),
+        min_eccentricity=_enum(path, "min_eccentricity", data.get("min_eccentricity", "both-axes"),
                                MinEccentricity),
         biaxial=_enum(path, "biaxial", data.get("biaxial", "5.39"), BiaxialMethod),
         exact_biaxial=True,
