@@ -377,6 +377,7 @@ def check_members(
     actions: ColumnActions,
     settings: CheckSettings = CheckSettings(),
     params: NationalParameters = EN_RECOMMENDED,
+    fast: bool = False,
 ) -> MemberChecks:
     """Check many (cell, candidate) pairs at once.
 
@@ -389,6 +390,10 @@ def check_members(
         actions: the actions per pair (broadcast to the number of pairs).
         settings: options shared by all pairs.
         params: national parameters.
+        fast: take MRd from each section's tabulated N-M curve (conservative chord,
+            see SectionBatch.moment_resistance_fast) except above 0.9 NRd, where the
+            exact solver is used; for screening many pairs, with an exact re-check of
+            near-critical ones by the caller.
 
     Returns:
         MemberChecks with one row per pair.
@@ -420,9 +425,17 @@ def check_members(
     both = settings.min_eccentricity is MinEccentricity.BOTH_AXES
 
     # Resistances at NEd (independent of the imperfection case).
-    MRdy = sb.moment_resistance(NEd, "y", idx)
-    MRdz = sb.moment_resistance(NEd, "z", idx)
     NRd = sb.NRd()[idx]
+    if fast:
+        MRdy = sb.moment_resistance_fast(NEd, "y", idx)
+        MRdz = sb.moment_resistance_fast(NEd, "z", idx)
+        near = np.nonzero((NEd > 0.9 * NRd) & (NEd <= NRd))[0]
+        if near.size:
+            MRdy[near] = sb.moment_resistance(NEd[near], "y", idx[near])
+            MRdz[near] = sb.moment_resistance(NEd[near], "z", idx[near])
+    else:
+        MRdy = sb.moment_resistance(NEd, "y", idx)
+        MRdz = sb.moment_resistance(NEd, "z", idx)
     NRd_a = g["Ac"] * g["fcd"] + g["As"] * g["fyd"]  # as defined for Eq. (5.39) in 5.8.9(4)
     shape = np.where(g["circ"], "circular", "rectangular")
     a_exp = np.where(g["circ"], 2.0,

@@ -141,6 +141,7 @@ class _Projected:
     t: np.ndarray  # (S, m)
     Au: np.ndarray  # (S, m) area times across-coordinate, mm3
     A: np.ndarray  # (S, m)
+    D: np.ndarray  # (S, m) bar diameter of each layer, mm
     dmax: np.ndarray  # (S,)
     mat: dict  # material arrays, each (S,)
     angled: bool  # True when some rectangle is seen at a non-principal angle
@@ -151,7 +152,7 @@ class _Projected:
         return _Projected(
             circ=self.circ[idx], H=self.H[idx], width=self.width[idx], R=self.R[idx],
             b=self.b[idx], h=self.h[idx], cos=self.cos[idx], sin=self.sin[idx],
-            v=self.v[idx], t=self.t[idx], Au=self.Au[idx], A=self.A[idx], dmax=self.dmax[idx],
+            v=self.v[idx], t=self.t[idx], Au=self.Au[idx], A=self.A[idx], D=self.D[idx], dmax=self.dmax[idx],
             mat={k: a[idx] for k, a in self.mat.items()}, angled=self.angled,
             n2=self.n2 or bool(np.all(self.mat["n"][idx] == 2.0)),
         )
@@ -183,11 +184,13 @@ class SectionBatch:
         self.bar_y = np.zeros((S, m))
         self.bar_z = np.zeros((S, m))
         self.bar_A = np.zeros((S, m))
+        self.bar_D = np.zeros((S, m))
         for i, (y, z, dia) in enumerate(coords):
             k = len(y)
             self.bar_y[i, :k] = y
             self.bar_z[i, :k] = z
             self.bar_A[i, :k] = np.pi * dia**2 / 4
+            self.bar_D[i, :k] = dia
         self.circ = np.array([isinstance(d.section, CircSection) for d in designs])
         self.b = np.array([d.section.b for d in designs], dtype=float)
         self.h = np.array([d.section.h for d in designs], dtype=float)
@@ -237,10 +240,10 @@ class SectionBatch:
         width = np.where(np.abs(sin) > 0.5, self.b, self.h) if principal else np.zeros(S)
         v = H[:, None] / 2 - t
         dmax = np.max(np.where(self.bar_A > 0, v, -np.inf), axis=1)
-        v, t, A, Au = _layers(v, t, self.bar_A, self.bar_A * u)
+        v, t, A, Au, D = _layers(v, t, self.bar_A, self.bar_A * u, self.bar_D)
         return _Projected(
             circ=self.circ, H=H, width=width, R=R, b=self.b, h=self.h, cos=cos, sin=sin,
-            v=v, t=t, Au=Au, A=A, dmax=dmax, mat=self.mat,
+            v=v, t=t, Au=Au, A=A, D=D, dmax=dmax, mat=self.mat,
             angled=not principal and bool(np.any(~self.circ)),
             n2=self._n_is_2,
         )
@@ -311,7 +314,16 @@ class SectionBatch:
             sig = np.copysign(
                 np.where(a <= eyd, mat["Es"][:, None] * a,
                          mat["fyd"][:, None] + mat["slope"][:, None] * (a - eyd)), eps)
-        sig -= self._concrete_stress(eps, mat, Q.n2)  # displaced concrete
+        if self.law is ConcreteLaw.RECTANGULAR_BLOCK:
+            # Displaced concrete: the share of each bar's diameter inside the block, so that
+            # N grows smoothly as the block edge sweeps across a bar.
+            kd = kappa[:, None] * Q.D
+            with np.errstate(divide="ignore", invalid="ignore"):
+                frac = np.where(kd > 0, (eps + 0.5 * kd - mat["ethr"][:, None]) / np.where(kd > 0, kd, 1.0),
+                                (eps >= mat["ethr"][:, None]).astype(float))
+            sig -= mat["fblock"][:, None] * np.clip(frac, 0.0, 1.0)
+        else:
+            sig -= self._concrete_stress(eps, mat, Q.n2)  # displaced concrete
         F = Q.A * sig
         N = Nc + F.sum(axis=1)
         if not moments:
@@ -674,6 +686,7 @@ class _PairView(SectionBatch):
         self._n_is_2 = parent._n_is_2
         self._horizontal = parent._horizontal
         self.bar_y, self.bar_z, self.bar_A = parent.bar_y[idx], parent.bar_z[idx], parent.bar_A[idx]
+        self.bar_D = parent.bar_D[idx]
         self.circ, self.b, self.h = parent.circ[idx], parent.b[idx], parent.h[idx]
         self.Ac, self.As = parent.Ac[idx], parent.As[idx]
         self.mat = {k: a[idx] for k, a in parent.mat.items()}
@@ -705,28 +718,31 @@ def _rect_slice(Q: _Projected, v: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return np.where(empty, 0.0, umin), np.where(empty, 0.0, umax)
 
 
-def _layers(v: np.ndarray, t: np.ndarray, A: np.ndarray, Au: np.ndarray):
-    """Merge bars at the same depth into layers (they share one strain).
+def _layers(v: np.ndarray, t: np.ndarray, A: np.ndarray, Au: np.ndarray, D: np.ndarray):
+    """Merge bars of one diameter at the same depth into layers (they share one strain).
 
-    Returns padded (S, L) arrays of depth, lever arm, area and area times the
-    across-coordinate; exact, since every bar of a layer has the same strain.
+    Returns padded (S, L) arrays of depth, lever arm, area, area times the
+    across-coordinate and diameter; exact, since every bar of a layer has the
+    same strain.
     """
     S = v.shape[0]
-    key = np.round(v, 9)
+    key = np.round(v, 6) * 1e3 + np.round(D, 3)
     groups = []
     for i in range(S):
         real = A[i] > 0
         uniq, inv = np.unique(key[i, real], return_inverse=True)
         groups.append((uniq, inv, real))
     L = max(len(g[0]) for g in groups)
-    vl, tl, Al, Aul = (np.zeros((S, L)) for _ in range(4))
+    vl, tl, Al, Aul, Dl = (np.zeros((S, L)) for _ in range(5))
     for i, (uniq, inv, real) in enumerate(groups):
         k = len(uniq)
+        cnt = np.bincount(inv, minlength=k)
         Al[i, :k] = np.bincount(inv, weights=A[i, real], minlength=k)
         Aul[i, :k] = np.bincount(inv, weights=Au[i, real], minlength=k)
-        vl[i, :k] = uniq
-        tl[i, :k] = np.bincount(inv, weights=t[i, real], minlength=k) / np.bincount(inv, minlength=k)
-    return vl, tl, Al, Aul
+        vl[i, :k] = np.bincount(inv, weights=v[i, real], minlength=k) / cnt
+        tl[i, :k] = np.bincount(inv, weights=t[i, real], minlength=k) / cnt
+        Dl[i, :k] = np.bincount(inv, weights=D[i, real], minlength=k) / cnt
+    return vl, tl, Al, Aul, Dl
 
 
 def _inverse_quadratic(a, fa, b, fb, c, fc) -> np.ndarray:
@@ -873,9 +889,16 @@ def moment_resistance_scalar(ds: DesignSection, NEd: float, axis: Axis) -> float
                                 epsabs=1e-9, epsrel=1e-12, limit=200)[0]
             M += integrate.quad(lambda v: sig_c(top - kap * v) * width_at(v) * (H / 2 - v), lo, hi,
                                 epsabs=1e-9, epsrel=1e-12, limit=200)[0]
-        for a, d, c in zip(areas, depths, lever, strict=True):
+        for a, d, c, dd in zip(areas, depths, lever, dia, strict=True):
             e = top - kap * d
-            force = a * (float(steel.stress(e)) - sig_c(e))
+            if block:  # share of the bar's diameter inside the block, as in the vectorised path
+                kd = kap * dd
+                thr = (1 - conc.lam) * conc.eps_cu3
+                frac = (e + 0.5 * kd - thr) / kd if kd > 0 else float(e >= thr)
+                displaced = conc.eta * conc.fcd * min(max(frac, 0.0), 1.0)
+            else:
+                displaced = sig_c(e)
+            force = a * (float(steel.stress(e)) - displaced)
             N += force
             M += force * c
         return N, M

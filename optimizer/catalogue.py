@@ -125,7 +125,6 @@ class Catalogue:
     """The generated types, ordered by plan area, then steel, then grade (mark numbers follow)."""
 
     types: tuple[ColumnType, ...]
-    cover: float
     cover_note: str
 
     def __len__(self) -> int:
@@ -213,32 +212,44 @@ def _reject_unknown(t: _Table, allowed: set[str]) -> None:
             raise InputError(t.file, t.key(key), t.data[key], f"unknown key{hint}")
 
 
-def required_cover(scenario: Scenario, spec: CatalogueSpec, params: NationalParameters) -> tuple[float, str]:
-    """Nominal cover to the links for the whole catalogue, mm, and how it was found.
+def required_cover(scenario: Scenario, spec: CatalogueSpec, params: NationalParameters):
+    """Nominal cover to the links as a function of the bars, and how it was found.
 
-    Given in the scenario, or derived for the most onerous exposure class of
-    the building: cnom = max(cmin,b, cmin,dur, 10 mm) + delta_c_dev for a
-    12 mm link (EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)), rounded up to 5 mm.
-    The cover check of every cell confirms it for its own bars.
+    Given in the scenario (the same for every type), or derived for the most
+    onerous exposure class of the building: the links need
+    max(cmin,b(link), cmin,dur, 10 mm) + delta_c_dev and the main bars
+    max(cmin,b(phi), cmin,dur, 10 mm) + delta_c_dev measured to the bar
+    (EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2), Table 4.2), so the cover to the
+    links grows for large bars; rounded up to 5 mm. The cover check of every
+    cell confirms it for its own exposure class.
+
+    Returns:
+        (cover(phi_max, link) -> mm, note)
     """
     if spec.cover is not None:
-        return spec.cover, "given in the scenario"
-    worst = 0.0
-    worst_exp = None
-    fcks = {c.settings.fck_MPa for c in scenario.cells}
+        fixed = spec.cover
+        return (lambda phi, link: fixed), f"{fixed:g} mm given in the scenario"
+    dg = scenario.materials.aggregate_mm
+    worst_dur, worst_exp = -1.0, None
+    fck_min = min(c.settings.fck_MPa for c in scenario.cells)
     for c in scenario.cells:
         if c.settings.exposure is None:
             continue
         exp = ExposureClass(c.settings.exposure)
-        s = structural_class(exp, min(fcks), params=params)
-        need = float(cnom(cmin(cmin_b(12.0, scenario.materials.aggregate_mm), cmin_dur(exp, s), params), params))
-        if need > worst:
-            worst, worst_exp = need, exp
+        dur = float(cmin_dur(exp, structural_class(exp, fck_min, params=params)))
+        if dur > worst_dur:
+            worst_dur, worst_exp = dur, exp
     if worst_exp is None:
         raise InputError(scenario.source, "catalogue.cover_mm", None,
                          "missing: give cover_mm, or exposure classes in [[settings]] to derive it")
-    cover = 5.0 * math.ceil(worst / 5.0)
-    return cover, f"derived for exposure {worst_exp.value} (EN 1992-1-1 4.4.1), rounded up to 5 mm"
+
+    def cover(phi: float, link: float) -> float:
+        to_link = float(cnom(cmin(cmin_b(link, dg), worst_dur, params), params))
+        to_bar = float(cnom(cmin(cmin_b(phi, dg), worst_dur, params), params)) - link
+        return 5.0 * math.ceil(max(to_link, to_bar) / 5.0 - 1e-9)
+
+    return cover, (f"derived for exposure {worst_exp.value} (cmin,dur = {worst_dur:g} mm) and each type's bars "
+                   "(EN 1992-1-1 4.4.1), rounded up to 5 mm")
 
 
 def _link_for(phi_max: float) -> float:
@@ -272,7 +283,7 @@ def build_catalogue(scenario: Scenario, spec: CatalogueSpec | None = None) -> Ca
     """Generate the catalogue of a scenario (every grade used in the building)."""
     params = scenario.params
     spec = spec or read_catalogue_spec(scenario)
-    cover, note = required_cover(scenario, spec, params)
+    cover_for, note = required_cover(scenario, spec, params)
     dg = scenario.materials.aggregate_mm
     steel = Reinforcement.with_params(scenario.materials.fyk_MPa, scenario.materials.ductility, params=params)
     fcks = sorted({c.settings.fck_MPa for c in scenario.cells})
@@ -297,7 +308,8 @@ def build_catalogue(scenario: Scenario, spec: CatalogueSpec | None = None) -> Ca
         for dia in spec.bar_dias:
             if dia < params.phi_min_long:
                 continue
-            link = _link_for(dia + (8.0 if spec.mixed_corners else 0.0))
+            link = _link_for(dia)
+            cover = cover_for(dia, link)
             if shape is Shape.CIRCULAR:
                 raw += _circular_types(D, cover, link, dia, spec, dg, params, concretes, steel)
                 continue
@@ -318,8 +330,9 @@ def build_catalogue(scenario: Scenario, spec: CatalogueSpec | None = None) -> Ca
                     for corner in corners:
                         if corner is not None and nb == 2 and nh == 2:
                             continue
+                        big = max(dia, corner or 0.0)
                         try:
-                            sec = RectSection(b, h, cover, _link_for(max(dia, corner or 0.0)),
+                            sec = RectSection(b, h, cover_for(big, _link_for(big)), _link_for(big),
                                               RectBars(dia, nb, nh, corner))
                         except ValueError:
                             continue
@@ -328,7 +341,7 @@ def build_catalogue(scenario: Scenario, spec: CatalogueSpec | None = None) -> Ca
                         for conc in concretes:
                             raw.append((DesignSection(sec, conc, steel), _scl(sec, params), shape))
     for b, h, D, bars in spec.explicit:
-        raw += _explicit(b, h, D, bars, cover, concretes, steel, params, scenario)
+        raw += _explicit(b, h, D, bars, cover_for, concretes, steel, params, scenario)
     raw.sort(key=lambda r: (r[0].section.Ac, r[0].section.As, r[0].concrete.fck, r[0].section.label))
     seen = set()
     types = []
@@ -340,7 +353,7 @@ def build_catalogue(scenario: Scenario, spec: CatalogueSpec | None = None) -> Ca
         types.append(ColumnType(f"T{len(types) + 1}", ds, scl, shape))
     if not types:
         raise InputError(scenario.source, "catalogue", "", "generates no column type; widen sizes or bar_dias")
-    return Catalogue(tuple(types), cover, note)
+    return Catalogue(tuple(types), note)
 
 
 def _ratio_ok(sec, spec: CatalogueSpec, params: NationalParameters) -> bool:
@@ -374,10 +387,11 @@ def _circular_types(D, cover, link, dia, spec, dg, params, concretes, steel):
     return out
 
 
-def _explicit(b, h, D, bars, cover, concretes, steel, params, scenario):
+def _explicit(b, h, D, bars, cover_for, concretes, steel, params, scenario):
     terms = parse_bar_notation(bars)
     dias = [d for _, d in terms]
     link = _link_for(max(dias))
+    cover = cover_for(max(dias), link)
     total = sum(n for n, _ in terms)
     try:
         if D is not None:

@@ -10,8 +10,9 @@ Matching material laws (EN 1992-1-1 3.1.7(1) and 3.2.7(2)):
 * concrete: ``EurocodeParabolicUltimate(fcd, eps_c2, eps_cu2, n)`` - the parabola-rectangle
   diagram with the same fcd, eps_c2, eps_cu2 and n as the engine; no tension. The library
   stores the parabola as ``n_points`` straight chords, so it integrates a slightly smaller
-  area than the true parabola (about 1/(6 n_points^2) of the parabolic part for n = 2: 0.07 %
-  with 16 chords) - well inside the 1 % tolerance.
+  area than the true parabola (about 1/(6 n_points^2) of the parabolic part for n = 2: 0.12 %
+  with 12 chords; more for n < 2, where the parabola bends faster near eps_c2) - well inside
+  the 1 % tolerance. More chords cost time (every chord is a split of the meshed concrete).
 * steel: ``SteelElasticPlastic(fyd, Es = 200 GPa)`` - the horizontal top branch of Fig. 3.8.
   Its fracture strain is set far out of reach (10) because the horizontal branch has no
   strain limit (3.2.7(2)b); the engine likewise uses a nominal limit of 1.0.
@@ -22,10 +23,10 @@ deducts the concrete stress at each bar's strain times the bar area. Both theref
 the displaced concrete.
 
 Circles: the reference concrete is a regular polygon. ``circular_section_by_area`` with the
-gross area pi D^2 / 4 and 96 sides gives the exact area; its circumradius exceeds D/2 by
-about (pi/96)^2/6 = 0.02 %, and the shape differs from the circle by at most 0.05 % of the
-radius, so the moments differ from the true circle's by well under 0.2 % (observed with 64
-sides: 0.18 %, with 128: 0.14 %, of which most is the chord approximation of the parabola).
+gross area pi D^2 / 4 and 64 sides gives the exact area; its circumradius exceeds D/2 by
+about (pi/64)^2/6 = 0.04 % and its apothem falls short by about twice that, so the moments
+differ from the true circle's by about 0.1 % at most (observed during writing: 0.18 % with
+64 sides, 0.14 % with 128, most of it the chord approximation of the parabola).
 
 Strain limits: the library keeps eps_cu2 at the extreme fibre for every neutral-axis depth,
 including x > h; EN 1992-1-1 6.1(5) and Fig. 6.1 (and the engine) instead pivot about
@@ -190,15 +191,21 @@ def comparison():
         ref = _reference_section(ds)
         sec = ds.section
         n_scale = ds.concrete.fcd * sec.Ac
+        # Pure bending on one axis per section (alternating, so both axes get about half
+        # the sections; each root search costs five or six reference evaluations and the
+        # whole file must stay fast); a third, shallow neutral axis on the other one.
+        root_axis = "yz"[i % 2]
         for axis, H in (("y", sec.h), ("z", sec.b)):
+            fractions = DN_FRACTIONS if axis == root_axis else (0.1537, *DN_FRACTIONS)
             samples = []
-            for f in DN_FRACTIONS:
+            for f in fractions:
                 n, m = _actions(ref, f * H, axis)
                 samples.append((f * H, n, m))
                 rows.append((i, axis, f"d_n={f:g}h", n, m))
-            search = _pure_bending(ref, H, axis, samples[0], n_scale)
-            rows += [(i, axis, "search", n, m) for _, n, m in search[:-1]]
-            rows.append((i, axis, "N=0", search[-1][1], search[-1][2]))
+            if axis == root_axis:
+                search = _pure_bending(ref, H, axis, samples[0], n_scale)
+                rows += [(i, axis, "search", n, m) for _, n, m in search[:-1]]
+                rows.append((i, axis, "N=0", search[-1][1], search[-1][2]))
         # Squash load. With d_n = inf the library strains the whole section to eps_cu2
         # (concrete fcd on the net area, steel at fyd since eps_cu2 > eps_yd); EN 1992-1-1
         # 6.1(5) limits uniform compression to eps_c2, where the steel stress is
@@ -233,9 +240,11 @@ def test_random_set_covers_the_brief():
 
 @pytest.mark.parametrize("i", range(N_SECTIONS))
 def test_nm_points_against_concreteproperties(comparison, i):
-    """MRd at the reference axial force, both axes: d_n = 0.4837 h and 0.9373 h, every point of
-    the root search on d_n for N = 0 (tension side included) and N = 0 itself; within 1 %
-    of concreteproperties (EN 1992-1-1 6.1, same laws)."""
+    """MRd at the reference axial force, both axes: d_n = 0.4837 h and 0.9373 h on both; on
+    one axis every point of the root search on d_n for N = 0 (tension side included) and
+    N = 0 itself, on the other d_n = 0.1537 h; within 1 % of concreteproperties
+    (EN 1992-1-1 6.1, same laws). The odd fractions keep the reference's split lines off
+    the vertices of the bar holes (a split exactly through them crashed its triangulator)."""
     rows, engine, _ = comparison
     errs = []
     for k, (j, axis, kind, n, m_ref) in enumerate(rows):
@@ -244,7 +253,8 @@ def test_nm_points_against_concreteproperties(comparison, i):
         assert m_ref > 0
         errs.append((abs(engine[k] - m_ref) / m_ref, axis, kind, n))
     kinds = {(axis, kind) for _, axis, kind, _ in errs}
-    assert {(ax, k) for ax in "yz" for k in ("N=0", "d_n=0.4837h", "d_n=0.9373h")} <= kinds
+    assert {(ax, k) for ax in "yz" for k in ("d_n=0.4837h", "d_n=0.9373h")} <= kinds
+    assert ("yz"[i % 2], "N=0") in kinds
     worst = max(errs)
     assert worst[0] < TOL, f"{DESIGNS[i].section.label} {DESIGNS[i].concrete.name}: {worst}"
 
@@ -260,10 +270,11 @@ def test_pure_bending_points_are_at_zero_axial_force(comparison):
 
 def test_overall_deviation(comparison):
     """Summary over all points: the largest relative moment deviation stays below 1 %
-    (observed at writing: about 0.2 %, the largest on circles)."""
+    (observed at writing: 0.26 % over 217 points, the largest for fck > 50 near x = h, where
+    the reference's 12-chord parabola is coarsest; squash loads agree to 3e-8)."""
     rows, engine, _ = comparison
     dev = np.array([abs(engine[k] - r[4]) / r[4] for k, r in enumerate(rows)])
-    assert len(dev) >= 200
+    assert len(dev) >= 150
     assert dev.max() < TOL
 
 
