@@ -32,9 +32,11 @@ ends = single curvature).
 
 from __future__ import annotations
 
+import functools
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from enum import StrEnum
+from typing import Literal
 
 import numpy as np
 from numpy.typing import ArrayLike
@@ -46,7 +48,7 @@ from design.fire import MU_FI_DEFAULT, FireRating
 from design.params import EN_RECOMMENDED, NationalParameters
 from design.resistance import DesignSection, SectionBatch
 from design.results import CheckResult
-from design.sections import CircSection
+from design.sections import CircSection, RectSection
 from design.slenderness import ImperfectionMethod
 
 __all__ = [
@@ -99,6 +101,9 @@ class CheckSettings:
         working_life_100y: design working life of 100 years (Table 4.3N).
         lapped: bars are lapped at the floor (As,max at laps, 9.5.2(3)).
         slenderness_cap: flag columns above this slenderness.
+        fire_outside_method: where fire method A does not apply (EN 1992-1-2 5.3.2(2)),
+            "fail" the check, or "flag" it as not verified (another method, e.g.
+            5.3.3 or Annex B, must then be used; reported as a warning).
     """
 
     imperfection: ImperfectionMethod = ImperfectionMethod.INCLINATION
@@ -112,6 +117,7 @@ class CheckSettings:
     working_life_100y: bool = False
     lapped: bool = True
     slenderness_cap: float = SLENDERNESS_CAP
+    fire_outside_method: Literal["fail", "flag"] = "fail"
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "imperfection", ImperfectionMethod(self.imperfection))
@@ -125,6 +131,9 @@ class CheckSettings:
             object.__setattr__(self, "exact_biaxial", True)
         if not 0.0 <= self.mu_fi <= 1.0:
             msg = f"mu_fi must lie between 0 and 1, got mu_fi={self.mu_fi}"
+            raise ValueError(msg)
+        if self.fire_outside_method not in ("fail", "flag"):
+            msg = f"fire_outside_method must be 'fail' or 'flag', got {self.fire_outside_method!r}"
             raise ValueError(msg)
         if not self.aggregate > 0:
             msg = f"aggregate size must be positive, got dg={self.aggregate} mm"
@@ -201,13 +210,7 @@ class SectionData:
         h = np.array([s.h for s in secs], dtype=float)
         iy = np.where(circ, h / 4.0, h / np.sqrt(12.0))
         iz = np.where(circ, b / 4.0, b / np.sqrt(12.0))
-        ties = []
-        for s in secs:
-            if isinstance(s, CircSection):
-                ties.append(0)
-                continue
-            y, z, _ = s.bar_coords()
-            ties.append(_extra_ties_rect(y, z))
+        ties = [extra_ties(s) for s in secs]
         return cls(
             batch=batch, circ=circ, b=b, h=h,
             Ac=np.array([s.Ac for s in secs]), As=np.array([s.As for s in secs]),
@@ -226,14 +229,27 @@ class SectionData:
         )
 
 
+def extra_ties(section: RectSection | CircSection) -> int:
+    """Extra ties a section needs so that every bar is within 150 mm of a restrained bar (9.5.3(6))."""
+    if isinstance(section, CircSection):
+        return 0  # a circular link restrains every bar
+    y, z, _ = section.bar_coords()
+    return _extra_ties_rect(y, z)
+
+
 def _extra_ties_rect(y: np.ndarray, z: np.ndarray) -> int:
     """Extra ties so that every bar lies within 150 mm of a restrained bar (9.5.3(6))."""
     total = 0
     for along, across in ((y, z), (z, y)):
         for side in (across.max(), across.min()):
             on_face = np.isclose(across, side, atol=20.0)
-            total += detailing.extra_ties_needed(np.sort(along[on_face]))
+            total += _face_ties(tuple(np.round(np.sort(along[on_face]), 1)))
     return total
+
+
+@functools.lru_cache(maxsize=4096)
+def _face_ties(positions: tuple[float, ...]) -> int:
+    return int(detailing.extra_ties_needed(np.array(positions)))
 
 
 @dataclass(frozen=True)
@@ -247,14 +263,15 @@ class CheckColumn:
     capacity: np.ndarray
     applicable: np.ndarray
     note: str | np.ndarray | Callable[[int], str] = ""
+    blocking: bool = True  # where the method does not apply: fail (True) or flag as not verified (False)
 
     @property
     def utilisation(self) -> np.ndarray:
-        """Demand / capacity per pair; inf where the method does not apply."""
+        """Demand / capacity per pair; where the method does not apply: inf if blocking, else 0 (flagged)."""
         with np.errstate(divide="ignore", invalid="ignore"):
             u = np.where(self.capacity > 0, self.demand / np.where(self.capacity > 0, self.capacity, 1.0),
                          np.where(self.demand > 0, np.inf, 0.0))
-        return np.where(self.applicable, u, np.inf)
+        return np.where(self.applicable, u, np.inf if self.blocking else 0.0)
 
     def result(self, i: int) -> CheckResult:
         """The check of pair ``i`` as a :class:`CheckResult`."""
@@ -299,15 +316,23 @@ class MemberChecks:
 
     @property
     def ok(self) -> np.ndarray:
-        """True where every check passes."""
+        """True where every check passes (checks flagged as not verified do not decide)."""
         return self.utilisation <= 1.0 + 1e-9
+
+    @property
+    def unverified(self) -> np.ndarray:
+        """True where a non-blocking check could not be verified by its method (a warning)."""
+        flags = [~c.applicable for c in self.checks if not c.blocking]
+        return np.logical_or.reduce(flags) if flags else np.zeros(len(self.idx), dtype=bool)
 
     def column(self, i: int) -> ColumnCheck:
         """The single-column view of pair ``i``."""
         results = [c.result(i) for c in self.checks]
         gov = results[int(self.governing[i])]
+        flagged = [r for r, c in zip(results, self.checks, strict=True) if not c.blocking and not r.applicable]
         return ColumnCheck(
             checks=results, governing=gov, ok=bool(self.ok[i]), utilisation=float(self.utilisation[i]),
+            unverified=flagged,
             values={k: (v[i].item() if isinstance(v, np.ndarray) else v) for k, v in self.values.items()},
         )
 
@@ -321,6 +346,7 @@ class ColumnCheck:
     ok: bool
     utilisation: float
     values: dict[str, float | bool | str]
+    unverified: list[CheckResult] = field(default_factory=list)  # methods that do not apply (flagged)
 
     def check(self, name: str) -> CheckResult:
         """The check called ``name``."""
@@ -571,7 +597,9 @@ def _cover_checks(g: dict, settings: CheckSettings, params: NationalParameters):
     req_link = cover.cnom(cover.cmin(cover.cmin_b(g["link"], settings.aggregate), dur, params), params)
     req_main = cover.cnom(cover.cmin(cover.cmin_b(g["dia_max"], settings.aggregate), dur, params), params)
     ones = np.ones(len(g["b"]), dtype=bool)
-    note = np.array([f"{exp.value}, S{int(s)}, cmin,dur = {d:g} mm" for s, d in zip(s_cls, dur, strict=True)])
+    def note(i: int) -> str:
+        return f"{exp.value}, S{int(s_cls[i])}, cmin,dur = {float(dur[i]):g} mm"
+
     return [
         CheckColumn("nominal cover to links", "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)", "mm", req_link,
                     g["cover"], ones, note),
@@ -619,7 +647,7 @@ def _fire_check(g: dict, NEd: np.ndarray, values: dict, settings: CheckSettings,
 
     dem = np.where(np.isfinite(demand), demand, 1e6)
     return CheckColumn(f"fire resistance {rating.name}", "EN 1992-1-2, 5.3.2, Table 5.2a", "mm", dem, a,
-                       applicable, reasons)
+                       applicable, reasons, blocking=settings.fire_outside_method == "fail")
 
 
 def _exact_biaxial(sb: SectionBatch, idx: np.ndarray, NEd: np.ndarray, MEdy: np.ndarray,

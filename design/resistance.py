@@ -263,18 +263,29 @@ class SectionBatch:
         if key not in self._tables:
             cos, sin = self._direction(axis, positive)
             P = self._project(cos, sin, principal=True)
-            self._tables[key] = (P, self._n_of_s_grid(P))
+            N, M = self._grid_resultants(P)
+            self._tables[key] = (P, N)
+            self._tables[("M", axis, positive)] = (N, M)
         return self._tables[key]
 
     def _n_of_s_grid(self, P: _Projected) -> np.ndarray:
+        return self._grid_resultants(P)[0]
+
+    def _grid_resultants(self, P: _Projected, step: int = 16_384) -> tuple[np.ndarray, np.ndarray]:
+        """N (N) and |M| (N mm) at every point of the s-grid for every row of P, in cache-sized chunks."""
         S = len(P.H)
         K = len(_S_GRID)
-        s = np.broadcast_to(_S_GRID, (S, K)).ravel()
         rows = np.repeat(np.arange(S), K)
-        Q = P.take(rows)
-        eps_top, kappa = _profile(s, Q)
-        N, _, _ = self._forces(Q, eps_top, kappa, moments=False)
-        return N.reshape(S, K)
+        s_all = np.tile(_S_GRID, S)
+        N = np.empty(S * K)
+        M = np.empty(S * K)
+        for start in range(0, S * K, step):
+            sl = slice(start, start + step)
+            Q = P.take(rows[sl])
+            eps_top, kappa = _profile(s_all[sl], Q)
+            N[sl], st, _ = self._forces(Q, eps_top, kappa, moments=True)
+            M[sl] = np.abs(st)
+        return N.reshape(S, K), M.reshape(S, K)
 
     # ------------------------------------------------------------------ physics
     def _concrete_stress(self, eps: np.ndarray, mat: dict, n_is_2: bool) -> np.ndarray:
@@ -564,22 +575,8 @@ class SectionBatch:
 
     def _moment_table(self, axis: Axis) -> tuple[np.ndarray, np.ndarray]:
         """N (N) and M (N mm) at the s-grid for every section, computed once per axis."""
-        key = ("M", axis)
-        if key not in self._tables:
-            P, N_tab = self._table(axis)
-            S, K = N_tab.shape
-            rows = np.repeat(np.arange(S), K)
-            M = np.empty(S * K)
-            step = 65_536
-            s_all = np.tile(_S_GRID, S)
-            for start in range(0, S * K, step):
-                sl = slice(start, start + step)
-                Q = P.take(rows[sl])
-                eps_top, kappa = _profile(s_all[sl], Q)
-                _, st, _ = self._forces(Q, eps_top, kappa, moments=True)
-                M[sl] = np.abs(st)
-            self._tables[key] = (N_tab, M.reshape(S, K))
-        return self._tables[key]
+        self._table(axis)
+        return self._tables[("M", axis, True)]
 
     def moment_resistance_fast(self, NEd: np.ndarray, axis: Axis, idx: np.ndarray | None = None) -> np.ndarray:
         """MRd (N mm) by linear interpolation on the tabulated N-M curve (193 points per section).

@@ -20,6 +20,7 @@ the same side").
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 from enum import StrEnum
 
@@ -82,9 +83,10 @@ def _arr(x: ArrayLike) -> np.ndarray:
     return np.asarray(x, dtype=float)
 
 
-def _require(ok: np.ndarray | bool, msg: str) -> None:
+def _require(ok: np.ndarray | bool, msg: Callable[[], str]) -> None:
+    """Raise ValueError(msg()) unless ``ok`` holds everywhere (the message is built only then)."""
     if not np.all(ok):
-        raise ValueError(msg)
+        raise ValueError(msg())
 
 
 # --------------------------------------------------------------------------
@@ -108,8 +110,8 @@ def l0_braced(l: ArrayLike, k1: ArrayLike, k2: ArrayLike) -> np.ndarray:
 
     """
     l, k1, k2 = _arr(l), _arr(k1), _arr(k2)
-    _require(l > 0, f"clear height l must be positive, got l={l} mm")
-    _require((k1 >= 0) & (k2 >= 0), f"k1, k2 must not be negative, got k1={k1}, k2={k2} (-)")
+    _require(l > 0, lambda: f"clear height l must be positive, got l={l} mm")
+    _require((k1 >= 0) & (k2 >= 0), lambda: f"k1, k2 must not be negative, got k1={k1}, k2={k2} (-)")
     f1 = np.where(np.isinf(k1), 2.0, 1.0 + k1 / (0.45 + np.where(np.isinf(k1), 1.0, k1)))
     f2 = np.where(np.isinf(k2), 2.0, 1.0 + k2 / (0.45 + np.where(np.isinf(k2), 1.0, k2)))
     return 0.5 * l * np.sqrt(f1 * f2)
@@ -129,9 +131,9 @@ def l0_unbraced(l: ArrayLike, k1: ArrayLike, k2: ArrayLike) -> np.ndarray:
 
     """
     l, k1, k2 = _arr(l), _arr(k1), _arr(k2)
-    _require(l > 0, f"clear height l must be positive, got l={l} mm")
+    _require(l > 0, lambda: f"clear height l must be positive, got l={l} mm")
     _require((k1 >= 0) & (k2 >= 0) & np.isfinite(k1) & np.isfinite(k2),
-             f"k1, k2 must be finite and not negative, got k1={k1}, k2={k2} (-)")
+             lambda: f"k1, k2 must be finite and not negative, got k1={k1}, k2={k2} (-)")
     s = k1 + k2
     a = np.sqrt(1.0 + 10.0 * np.divide(k1 * k2, s, out=np.zeros_like(s * 1.0), where=s > 0))
     b = (1.0 + k1 / (1.0 + k1)) * (1.0 + k2 / (1.0 + k2))
@@ -150,8 +152,8 @@ def l0_from_factor(l: ArrayLike, factor: ArrayLike) -> np.ndarray:
 
     """
     l, factor = _arr(l), _arr(factor)
-    _require(l > 0, f"clear height l must be positive, got l={l} mm")
-    _require(factor > 0, f"effective-length factor must be positive, got {factor} (-)")
+    _require(l > 0, lambda: f"clear height l must be positive, got l={l} mm")
+    _require(factor > 0, lambda: f"effective-length factor must be positive, got {factor} (-)")
     return factor * l
 
 
@@ -166,7 +168,7 @@ def i_rectangle(h: ArrayLike) -> np.ndarray:
 
     """
     h = _arr(h)
-    _require(h > 0, f"section dimension must be positive, got {h} mm")
+    _require(h > 0, lambda: f"section dimension must be positive, got {h} mm")
     return h / np.sqrt(12.0)
 
 
@@ -180,7 +182,7 @@ def i_circle(D: ArrayLike) -> np.ndarray:
 
     """
     D = _arr(D)
-    _require(D > 0, f"diameter must be positive, got D={D} mm")
+    _require(D > 0, lambda: f"diameter must be positive, got D={D} mm")
     return D / 4.0
 
 
@@ -196,8 +198,8 @@ def slenderness(l0: ArrayLike, i: ArrayLike) -> np.ndarray:
 
     """
     l0, i = _arr(l0), _arr(i)
-    _require(l0 > 0, f"effective length must be positive, got l0={l0} mm")
-    _require(i > 0, f"radius of gyration must be positive, got i={i} mm")
+    _require(l0 > 0, lambda: f"effective length must be positive, got l0={l0} mm")
+    _require(i > 0, lambda: f"radius of gyration must be positive, got i={i} mm")
     return l0 / i
 
 
@@ -219,8 +221,8 @@ def n_relative(NEd: ArrayLike, Ac: ArrayLike, fcd: ArrayLike) -> np.ndarray:
 
     """
     NEd, Ac, fcd = _arr(NEd), _arr(Ac), _arr(fcd)
-    _require(Ac > 0, f"Ac must be positive, got Ac={Ac} mm2")
-    _require(fcd > 0, f"fcd must be positive, got fcd={fcd} MPa")
+    _require(Ac > 0, lambda: f"Ac must be positive, got Ac={Ac} mm2")
+    _require(fcd > 0, lambda: f"fcd must be positive, got fcd={fcd} MPa")
     return NEd / (Ac * fcd)
 
 
@@ -238,8 +240,8 @@ def omega_mechanical(As: ArrayLike, fyd: ArrayLike, Ac: ArrayLike, fcd: ArrayLik
 
     """
     As, fyd, Ac, fcd = _arr(As), _arr(fyd), _arr(Ac), _arr(fcd)
-    _require(As >= 0, f"As must not be negative, got As={As} mm2")
-    _require((Ac > 0) & (fcd > 0), f"Ac and fcd must be positive, got Ac={Ac} mm2, fcd={fcd} MPa")
+    _require(As >= 0, lambda: f"As must not be negative, got As={As} mm2")
+    _require((Ac > 0) & (fcd > 0), lambda: f"Ac and fcd must be positive, got Ac={Ac} mm2, fcd={fcd} MPa")
     return As * fyd / (Ac * fcd)
 
 
@@ -253,7 +255,7 @@ def A_creep(phi_ef: ArrayLike) -> np.ndarray:
 
     """
     phi_ef = _arr(phi_ef)
-    _require(phi_ef >= 0, f"phi_ef must not be negative, got phi_ef={phi_ef} (-)")
+    _require(phi_ef >= 0, lambda: f"phi_ef must not be negative, got phi_ef={phi_ef} (-)")
     return 1.0 / (1.0 + 0.2 * phi_ef)
 
 
@@ -267,7 +269,7 @@ def B_reinforcement(omega: ArrayLike) -> np.ndarray:
 
     """
     omega = _arr(omega)
-    _require(omega >= 0, f"omega must not be negative, got omega={omega} (-)")
+    _require(omega >= 0, lambda: f"omega must not be negative, got omega={omega} (-)")
     return np.sqrt(1.0 + 2.0 * omega)
 
 
@@ -284,7 +286,7 @@ def C_moment_ratio(r_m: ArrayLike) -> np.ndarray:
 
     """
     r_m = _arr(r_m)
-    _require((r_m >= -1.0) & (r_m <= 1.0), f"r_m must lie in [-1, 1], got r_m={r_m} (-)")
+    _require((r_m >= -1.0) & (r_m <= 1.0), lambda: f"r_m must lie in [-1, 1], got r_m={r_m} (-)")
     return 1.7 - r_m
 
 
@@ -392,7 +394,7 @@ def alpha_h(l: ArrayLike) -> np.ndarray:
 
     """
     l = _arr(l)
-    _require(l > 0, f"length l must be positive, got l={l} mm")
+    _require(l > 0, lambda: f"length l must be positive, got l={l} mm")
     return np.clip(2.0 / np.sqrt(l / 1000.0), 2.0 / 3.0, 1.0)
 
 
@@ -407,7 +409,7 @@ def alpha_m(m: ArrayLike) -> np.ndarray:
 
     """
     m = _arr(m)
-    _require(m >= 1, f"number of members m must be >= 1, got m={m} (-)")
+    _require(m >= 1, lambda: f"number of members m must be >= 1, got m={m} (-)")
     return np.sqrt(0.5 * (1.0 + 1.0 / m))
 
 
@@ -440,7 +442,7 @@ def ei_inclination(theta_i: ArrayLike, l0: ArrayLike) -> np.ndarray:
 
     """
     theta_i, l0 = _arr(theta_i), _arr(l0)
-    _require(l0 > 0, f"effective length must be positive, got l0={l0} mm")
+    _require(l0 > 0, lambda: f"effective length must be positive, got l0={l0} mm")
     return theta_i * l0 / 2.0
 
 
@@ -454,7 +456,7 @@ def ei_simplified(l0: ArrayLike) -> np.ndarray:
 
     """
     l0 = _arr(l0)
-    _require(l0 > 0, f"effective length must be positive, got l0={l0} mm")
+    _require(l0 > 0, lambda: f"effective length must be positive, got l0={l0} mm")
     return l0 / 400.0
 
 
@@ -494,7 +496,7 @@ def e0_min(h: ArrayLike) -> np.ndarray:
 
     """
     h = _arr(h)
-    _require(h > 0, f"section depth must be positive, got h={h} mm")
+    _require(h > 0, lambda: f"section depth must be positive, got h={h} mm")
     return np.maximum(h / 30.0, 20.0)
 
 
@@ -535,7 +537,7 @@ def first_order_end_moments(
 
     """
     Mt, Mb, NEd, e = _arr(M_top), _arr(M_bottom), _arr(NEd), _arr(ei)
-    _require(e >= 0, f"ei must not be negative, got ei={e} mm")
+    _require(e >= 0, lambda: f"ei must not be negative, got ei={e} mm")
     top_larger = np.abs(Mt) >= np.abs(Mb)
     m02 = np.where(top_larger, Mt, Mb)
     m01 = np.where(top_larger, Mb, Mt)
@@ -558,7 +560,7 @@ def M0e(M01: ArrayLike, M02: ArrayLike) -> np.ndarray:
     """
     M01, M02 = _arr(M01), _arr(M02)
     _require(np.abs(M02) >= np.abs(M01) - 1e-9 * np.abs(M02),
-             f"|M02| must be >= |M01| (EN 1992-1-1, 5.8.8.2(2)), got M01={M01}, M02={M02} N mm")
+             lambda: f"|M02| must be >= |M01| (EN 1992-1-1, 5.8.8.2(2)), got M01={M01}, M02={M02} N mm")
     s = np.where(M02 < 0, -1.0, 1.0)
     a01, a02 = s * M01, s * M02
     return s * np.maximum(0.6 * a02 + 0.4 * a01, 0.4 * a02)
@@ -581,7 +583,7 @@ def eps_yd(fyd: ArrayLike, Es: ArrayLike = 200_000.0) -> np.ndarray:
 
     """
     fyd, Es = _arr(fyd), _arr(Es)
-    _require((fyd > 0) & (Es > 0), f"fyd and Es must be positive, got fyd={fyd} MPa, Es={Es} MPa")
+    _require((fyd > 0) & (Es > 0), lambda: f"fyd and Es must be positive, got fyd={fyd} MPa, Es={Es} MPa")
     return fyd / Es
 
 
@@ -598,7 +600,7 @@ def inv_r0(eps_yd: ArrayLike, d: ArrayLike) -> np.ndarray:
 
     """
     eps, d = _arr(eps_yd), _arr(d)
-    _require(d > 0, f"effective depth must be positive, got d={d} mm")
+    _require(d > 0, lambda: f"effective depth must be positive, got d={d} mm")
     return eps / (0.45 * d)
 
 
@@ -619,9 +621,9 @@ def Kr(n: ArrayLike, omega: ArrayLike, n_bal: ArrayLike = N_BAL) -> np.ndarray:
 
     """
     n, omega, n_bal = _arr(n), _arr(omega), _arr(n_bal)
-    _require(omega >= 0, f"omega must not be negative, got omega={omega} (-)")
+    _require(omega >= 0, lambda: f"omega must not be negative, got omega={omega} (-)")
     nu = 1.0 + omega
-    _require(nu > n_bal, f"nu = 1 + omega must exceed n_bal, got nu={nu}, n_bal={n_bal} (-)")
+    _require(nu > n_bal, lambda: f"nu = 1 + omega must exceed n_bal, got nu={nu}, n_bal={n_bal} (-)")
     return np.clip((nu - n) / (nu - n_bal), 0.0, 1.0)
 
 
@@ -652,7 +654,7 @@ def Kphi(phi_ef: ArrayLike, fck: ArrayLike, lam: ArrayLike) -> np.ndarray:
 
     """
     phi_ef = _arr(phi_ef)
-    _require(phi_ef >= 0, f"phi_ef must not be negative, got phi_ef={phi_ef} (-)")
+    _require(phi_ef >= 0, lambda: f"phi_ef must not be negative, got phi_ef={phi_ef} (-)")
     return np.maximum(1.0 + beta_creep(fck, lam) * phi_ef, 1.0)
 
 
@@ -686,7 +688,7 @@ def e2(inv_r: ArrayLike, l0: ArrayLike, c: ArrayLike = C_CURVATURE) -> np.ndarra
 
     """
     c, l0 = _arr(c), _arr(l0)
-    _require(c >= 8.0, f"c must be >= 8 (EN 1992-1-1, 5.8.8.2(4)), got c={c} (-)")
+    _require(c >= 8.0, lambda: f"c must be >= 8 (EN 1992-1-1, 5.8.8.2(4)), got c={c} (-)")
     return _arr(inv_r) * l0**2 / c
 
 
@@ -886,7 +888,7 @@ def Ecd(Ecm: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> np.ndarr
         params: national parameters (gamma_cE, 5.8.6(3)).
 
     """
-    _require(params.gamma_cE > 0, f"gamma_cE must be positive, got {params.gamma_cE} (-)")
+    _require(params.gamma_cE > 0, lambda: f"gamma_cE must be positive, got {params.gamma_cE} (-)")
     return _arr(Ecm) / params.gamma_cE
 
 
@@ -900,7 +902,7 @@ def k1_stiffness(fck: ArrayLike) -> np.ndarray:
 
     """
     fck = _arr(fck)
-    _require(fck > 0, f"fck must be positive, got fck={fck} MPa")
+    _require(fck > 0, lambda: f"fck must be positive, got fck={fck} MPa")
     return np.sqrt(fck / 20.0)
 
 
@@ -956,12 +958,12 @@ def EI_nominal(
 
     """
     rho, phi_ef = _arr(rho), _arr(phi_ef)
-    _require(phi_ef >= 0, f"phi_ef must not be negative, got phi_ef={phi_ef} (-)")
+    _require(phi_ef >= 0, lambda: f"phi_ef must not be negative, got phi_ef={phi_ef} (-)")
     ecd = Ecd(Ecm, params)
     if simplified:
-        _require(rho >= 0.01, f"Eq. (5.26) needs rho >= 0.01, got rho={rho} (-)")
+        _require(rho >= 0.01, lambda: f"Eq. (5.26) needs rho >= 0.01, got rho={rho} (-)")
         return 0.3 / (1.0 + 0.5 * phi_ef) * ecd * _arr(Ic)
-    _require(rho >= 0.002, f"Eq. (5.22) needs rho >= 0.002, got rho={rho} (-)")
+    _require(rho >= 0.002, lambda: f"Eq. (5.22) needs rho >= 0.002, got rho={rho} (-)")
     Kc = k1_stiffness(fck) * k2_stiffness(n, lam) / (1.0 + phi_ef)
     return Kc * ecd * _arr(Ic) + _arr(Es) * _arr(Is)
 
@@ -978,7 +980,7 @@ def NB_buckling(EI: ArrayLike, l0: ArrayLike) -> np.ndarray:
 
     """
     l0 = _arr(l0)
-    _require(l0 > 0, f"effective length must be positive, got l0={l0} mm")
+    _require(l0 > 0, lambda: f"effective length must be positive, got l0={l0} mm")
     return np.pi**2 * _arr(EI) / l0**2
 
 
@@ -993,7 +995,7 @@ def beta_c0(c0: ArrayLike) -> np.ndarray:
 
     """
     c0 = _arr(c0)
-    _require(c0 > 0, f"c0 must be positive, got c0={c0} (-)")
+    _require(c0 > 0, lambda: f"c0 must be positive, got c0={c0} (-)")
     return np.pi**2 / c0
 
 
@@ -1016,6 +1018,6 @@ def magnification(
 
     """
     NEd, NB = np.maximum(_arr(NEd), 0.0), _arr(NB)
-    _require(NEd < NB, f"NEd must be below the buckling load NB, got NEd={NEd} N, NB={NB} N")
+    _require(NEd < NB, lambda: f"NEd must be below the buckling load NB, got NEd={NEd} N, NB={NB} N")
     ratio = np.divide(NB, NEd, out=np.full(np.broadcast(NB, NEd).shape, np.inf), where=NEd > 0)
     return _arr(M0Ed) * (1.0 + beta_c0(c0) / (ratio - 1.0))

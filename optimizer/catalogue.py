@@ -46,7 +46,9 @@ import numpy as np
 
 from design import detailing
 from design.cover import ExposureClass, cmin, cmin_b, cmin_dur, cnom, structural_class
+from design.fire import TABLE_5_2A, FireRating
 from design.materials import Concrete, Reinforcement
+from design.member import extra_ties
 from design.params import NationalParameters
 from design.resistance import DesignSection
 from design.sections import CircBars, CircSection, RectBars, RectSection, parse_bar_notation
@@ -228,10 +230,12 @@ def required_cover(scenario: Scenario, spec: CatalogueSpec, params: NationalPara
     """
     if spec.cover is not None:
         fixed = spec.cover
-        return (lambda phi, link: fixed), f"{fixed:g} mm given in the scenario"
+        return (lambda phi, link, width=0.0, n_bars=4: fixed), f"{fixed:g} mm given in the scenario"
     dg = scenario.materials.aggregate_mm
     worst_dur, worst_exp = -1.0, None
     fck_min = min(c.settings.fck_MPa for c in scenario.cells)
+    ratings = {int(str(c.settings.fire).upper().removeprefix("R")) for c in scenario.cells if c.settings.fire}
+    worst_fire = FireRating(max(ratings)) if ratings else None
     for c in scenario.cells:
         if c.settings.exposure is None:
             continue
@@ -243,13 +247,20 @@ def required_cover(scenario: Scenario, spec: CatalogueSpec, params: NationalPara
         raise InputError(scenario.source, "catalogue.cover_mm", None,
                          "missing: give cover_mm, or exposure classes in [[settings]] to derive it")
 
-    def cover(phi: float, link: float) -> float:
+    def cover(phi: float, link: float, width: float = 0.0, n_bars: int = 4) -> float:
         to_link = float(cnom(cmin(cmin_b(link, dg), worst_dur, params), params))
         to_bar = float(cnom(cmin(cmin_b(phi, dg), worst_dur, params), params)) - link
-        return 5.0 * math.ceil(max(to_link, to_bar) / 5.0 - 1e-9)
+        need = max(to_link, to_bar)
+        if worst_fire is not None:
+            # axis distance of EN 1992-1-2 Table 5.2a (mu_fi = 0.7 column) for this width
+            usable = [a for b, a, eight in TABLE_5_2A[worst_fire][0.7] if width >= b and (n_bars >= 8 or not eight)]
+            if usable:
+                need = max(need, min(usable) - link - phi / 2)
+        return 5.0 * math.ceil(need / 5.0 - 1e-9)
 
-    return cover, (f"derived for exposure {worst_exp.value} (cmin,dur = {worst_dur:g} mm) and each type's bars "
-                   "(EN 1992-1-1 4.4.1), rounded up to 5 mm")
+    fire_note = f" and {worst_fire.name} (EN 1992-1-2 Table 5.2a axis distance)" if worst_fire else ""
+    return cover, (f"derived for exposure {worst_exp.value} (cmin,dur = {worst_dur:g} mm){fire_note} and each "
+                   "type's bars (EN 1992-1-1 4.4.1), rounded up to 5 mm")
 
 
 def _link_for(phi_max: float) -> float:
@@ -309,7 +320,7 @@ def build_catalogue(scenario: Scenario, spec: CatalogueSpec | None = None) -> Ca
             if dia < params.phi_min_long:
                 continue
             link = _link_for(dia)
-            cover = cover_for(dia, link)
+            cover = cover_for(dia, link, b, 8)
             if shape is Shape.CIRCULAR:
                 raw += _circular_types(D, cover, link, dia, spec, dg, params, concretes, steel)
                 continue
@@ -332,8 +343,8 @@ def build_catalogue(scenario: Scenario, spec: CatalogueSpec | None = None) -> Ca
                             continue
                         big = max(dia, corner or 0.0)
                         try:
-                            sec = RectSection(b, h, cover_for(big, _link_for(big)), _link_for(big),
-                                              RectBars(dia, nb, nh, corner))
+                            sec = RectSection(b, h, cover_for(big, _link_for(big), b, 2 * nb + 2 * nh - 4),
+                                              _link_for(big), RectBars(dia, nb, nh, corner))
                         except ValueError:
                             continue
                         if not _ratio_ok(sec, spec, params):
@@ -391,7 +402,7 @@ def _explicit(b, h, D, bars, cover_for, concretes, steel, params, scenario):
     terms = parse_bar_notation(bars)
     dias = [d for _, d in terms]
     link = _link_for(max(dias))
-    cover = cover_for(max(dias), link)
+    cover = cover_for(max(dias), link, min(float(b or D or 0), float(h or D or 0)), sum(n for n, _ in terms))
     total = sum(n for n, _ in terms)
     try:
         if D is not None:
@@ -412,8 +423,13 @@ def _explicit(b, h, D, bars, cover_for, concretes, steel, params, scenario):
     return [(DesignSection(sec, c, steel), _scl(sec, params), shape) for c in concretes]
 
 
-def type_arrays(cat: Catalogue) -> dict[str, np.ndarray]:
-    """Per-type attribute arrays used by the feasibility matrix and the integer program."""
+def type_arrays(cat: Catalogue, ties: np.ndarray | None = None) -> dict[str, np.ndarray]:
+    """Per-type attribute arrays used by the feasibility matrix and the integer program.
+
+    Args:
+        cat: the catalogue.
+        ties: extra ties per type when already known (e.g. from design.member.SectionData).
+    """
     secs = [t.design.section for t in cat.types]
     circ = np.array([isinstance(s, CircSection) for s in secs])
     return {
@@ -431,5 +447,7 @@ def type_arrays(cat: Catalogue) -> dict[str, np.ndarray]:
         "link": np.array([s.link for s in secs], dtype=float),
         "link_spacing": np.array([t.link_spacing for t in cat.types], dtype=float),
         "count": np.array([s.bars.count for s in secs]),
+        "cover": np.array([s.cover for s in secs], dtype=float),
+        "extra_ties": np.array([extra_ties(s) for s in secs]) if ties is None else np.asarray(ties),
         "max_dia": np.array([s.bars.max_dia for s in secs], dtype=float),
     }

@@ -23,6 +23,7 @@ _COMMAND_MODULES = (
     "optimizer.cli_check",
     "optimizer.cli_takedown",
     "optimizer.cli_generate",
+    "optimizer.cli_feasibility",
 )
 
 

@@ -1,0 +1,434 @@
+"""The building-wide feasibility matrix: every catalogue type checked in every cell.
+
+For each cell (stack, level) and each type of the catalogue, and for stacks
+whose orientation is free also with the type turned by 90 degrees, the full
+member check of :mod:`design.member` decides pass or fail, with the
+utilisation and the governing check. Feasible pairs carry their quantities:
+main bars over the storey with the lap into the storey above, links, concrete,
+formwork and plan area.
+
+Speed: cells are checked in chunks against all types at once (numpy, no
+loop per pair). MRd comes from each type's tabulated N-M curve
+(SectionBatch.moment_resistance_fast); above 0.9 NRd and for every pair whose
+screened utilisation lies within ``recheck_band`` of 1.0 the exact solver is
+used, so no failing design is ever called feasible.
+"""
+
+from __future__ import annotations
+
+import math
+import time
+from collections.abc import Callable
+from concurrent.futures import ThreadPoolExecutor
+from dataclasses import dataclass, field
+
+import numpy as np
+import pandas as pd
+
+from design import detailing, laps, slenderness
+from design.cover import ExposureClass
+from design.fire import FireRating
+from design.member import CheckSettings, ColumnActions, SectionData, check_members
+from design.resistance import SectionBatch
+from optimizer.catalogue import STEEL_DENSITY, Catalogue, type_arrays
+from optimizer.errors import InputError
+from optimizer.problem import ScheduleProblem, TypeTable
+from optimizer.scenario import Orientation, Scenario
+
+__all__ = ["CellTable", "Feasibility", "cell_table", "feasibility", "RECHECK_BAND"]
+
+RECHECK_BAND = (0.99, 1.01)  # screened utilisations re-checked with the exact solver
+_RESISTANCE_CHECKS = ("bending about y", "bending about z", "biaxial interaction")
+TIE_LENGTH_FACTOR = 1.0  # an extra tie across the section is about one section width long (common practice)
+
+
+@dataclass(frozen=True)
+class CellTable:
+    """Per-cell actions and settings in the scenario's cell order (arrays; N, N mm, mm)."""
+
+    cells: tuple[tuple[str, str], ...]
+    NEd: np.ndarray
+    My_top: np.ndarray
+    My_bot: np.ndarray
+    Mz_top: np.ndarray
+    Mz_bot: np.ndarray
+    l0y: np.ndarray
+    l0z: np.ndarray
+    l_clear: np.ndarray  # clear height, mm
+    height: np.ndarray  # floor-to-floor height, mm
+    exposure: tuple[str | None, ...]
+    fire: tuple[str | None, ...]
+    fck: np.ndarray
+    free: np.ndarray  # bool: the stack's orientation is left to the optimiser
+    has_above: np.ndarray  # bool: the stack continues above (bars lap into the next storey)
+    l0_fi: np.ndarray  # effective length in fire, mm
+
+    def __len__(self) -> int:
+        return len(self.cells)
+
+
+def _num(df: pd.DataFrame, col: str) -> np.ndarray:
+    return df[col].to_numpy(dtype=float) if col in df.columns else np.full(len(df), np.nan)
+
+
+def cell_table(scenario: Scenario, actions: pd.DataFrame) -> CellTable:
+    """Join the actions table (takedown or analysis CSV) with the cells' settings.
+
+    Effective lengths come from the actions table when it has them, else from
+    the cell's factors on the clear height, else from its k1/k2 by
+    EN 1992-1-1 Eq. (5.15) (braced); a cell with none of these is an error.
+    """
+    df = actions.set_index(["stack", "level"])
+    n = len(scenario.cells)
+    out = {k: np.zeros(n) for k in ("NEd", "My_top", "My_bot", "Mz_top", "Mz_bot", "l0y", "l0z", "l_clear",
+                                    "height", "fck")}
+    exposure, fire, names = [], [], []
+    free = np.zeros(n, dtype=bool)
+    has_above = np.zeros(n, dtype=bool)
+    l0y_csv, l0z_csv = _num(actions, "l0y_mm"), _num(actions, "l0z_mm")
+    row_of = {key: i for i, key in enumerate(zip(actions["stack"], actions["level"], strict=True))}
+    for c in scenario.cells:
+        key = (c.stack, c.level)
+        if key not in row_of:
+            raise InputError(scenario.source, f"actions for {c.stack} at {c.level}", None,
+                             "a row in the actions table for every cell")
+        r = df.loc[key]
+        i = c.index
+        names.append(key)
+        out["NEd"][i] = float(r["NEd_kN"]) * 1e3
+        for col, name in (("My_top_kNm", "My_top"), ("My_bot_kNm", "My_bot"), ("Mz_top_kNm", "Mz_top"),
+                          ("Mz_bot_kNm", "Mz_bot")):
+            out[name][i] = float(r[col]) * 1e6
+        out["l_clear"][i] = c.clear_height_m * 1000.0
+        out["height"][i] = c.height_m * 1000.0
+        out["fck"][i] = c.settings.fck_MPa
+        j = row_of[key]
+        for ax, csv, prop in (("y", l0y_csv, c.l0y_mm), ("z", l0z_csv, c.l0z_mm)):
+            if np.isfinite(csv[j]):
+                val = csv[j]
+            elif prop is not None:
+                val = prop
+            else:
+                el = c.settings.effective_length
+                k1 = getattr(el, f"k1{ax}", None) if el else None
+                k2 = getattr(el, f"k2{ax}", None) if el else None
+                if k1 is None or k2 is None:
+                    raise InputError(scenario.source, f"effective length of {c.stack} at {c.level}", None,
+                                     f"l0{ax}_mm in the actions, an l0 factor, or k1{ax}/k2{ax} in [[settings]]")
+                val = float(slenderness.l0_braced(out["l_clear"][i], k1, k2))
+            out[f"l0{ax}"][i] = val
+        exp = r["exposure"] if "exposure" in r.index and isinstance(r["exposure"], str) and r["exposure"] else None
+        fr = r["fire"] if "fire" in r.index and isinstance(r["fire"], str) and r["fire"] else None
+        exposure.append(exp or c.settings.exposure)
+        fire.append(fr or c.settings.fire)
+        st = scenario.stack(c.stack)
+        free[i] = st.orientation is Orientation.FREE
+        has_above[i] = c.level != st.to_level
+    # Effective length in fire, EN 1992-1-2 5.3.2(2): the structure is braced (by its cores), so for
+    # R > 30 take 0.5 l in intermediate storeys and 0.7 l (the upper bound) in the top storey of a
+    # stack, l the floor-to-floor length; otherwise l0,fi = l0.
+    rating = np.array([int(str(f).upper().removeprefix("R")) if f else 0 for f in fire])
+    l0_fi = np.where(rating > 30, np.where(has_above, 0.5, 0.7) * out["height"], np.maximum(out["l0y"], out["l0z"]))
+    return CellTable(cells=tuple(names), exposure=tuple(exposure), fire=tuple(fire), free=free, has_above=has_above,
+                     l0_fi=l0_fi, **out)
+
+
+@dataclass
+class Feasibility:
+    """Feasible (cell, type, orientation) candidates and their quantities, with per-cell summaries."""
+
+    catalogue: Catalogue
+    cells: CellTable
+    cand_cell: np.ndarray
+    cand_type: np.ndarray
+    cand_orient: np.ndarray
+    utilisation: np.ndarray
+    governing: np.ndarray  # index into check_names
+    main_kg: np.ndarray  # main bars over the storey incl. the lap into the storey above
+    lap_kg: np.ndarray  # of which the lap
+    link_kg: np.ndarray  # links and extra ties
+    concrete_m3: np.ndarray
+    formwork_m2: np.ndarray
+    plan_m2: np.ndarray
+    check_names: list[str]
+    best_util: np.ndarray  # per cell: lowest utilisation over all types
+    best_type: np.ndarray  # per cell: the type reaching it
+    best_check: list[str]  # per cell: its governing check (name and clause)
+    pairs_checked: int
+    exact_rechecks: int
+    seconds: float
+    notes: list[str] = field(default_factory=list)
+
+    @property
+    def steel_kg(self) -> np.ndarray:
+        """Main bars + links per candidate, kg."""
+        return self.main_kg + self.link_kg
+
+    def lower_bound(self) -> tuple[np.ndarray, float]:
+        """Lightest feasible candidate per cell (-1 where none) and the total steel, kg."""
+        n = len(self.cells)
+        best = np.full(n, -1)
+        best_kg = np.full(n, np.inf)
+        order = np.lexsort((self.steel_kg, self.cand_cell))
+        first = np.ones(len(order), dtype=bool)
+        first[1:] = self.cand_cell[order][1:] != self.cand_cell[order][:-1]
+        sel = order[first]
+        best[self.cand_cell[sel]] = sel
+        best_kg[self.cand_cell[sel]] = self.steel_kg[sel]
+        ok = best >= 0
+        return best, float(best_kg[ok].sum())
+
+    def undesignable(self) -> list[int]:
+        """Cells with no feasible candidate."""
+        has = np.zeros(len(self.cells), dtype=bool)
+        has[self.cand_cell] = True
+        return [int(i) for i in np.nonzero(~has)[0]]
+
+
+def _settings_for(exposure: str | None, fire: str | None, dg: float, fire_rule: str = "flag") -> CheckSettings:
+    rating = None
+    if fire:
+        rating = FireRating(int(str(fire).upper().removeprefix("R")))
+    return CheckSettings(exposure=ExposureClass(exposure) if exposure else None, fire=rating, aggregate=dg,
+                         fire_outside_method=fire_rule)
+
+
+def feasibility(
+    scenario: Scenario,
+    catalogue: Catalogue,
+    actions: pd.DataFrame,
+    progress: Callable[[str, int, int], None] | None = None,
+    max_pairs: int = 100_000,
+    workers: int = 1,
+    fire_rule: str = "flag",
+) -> Feasibility:
+    """Check every catalogue type in every cell (both orientations for free stacks).
+
+    EN 1992-1-1 and EN 1992-1-2 through :func:`design.member.check_members`.
+
+    Args:
+        scenario: the building.
+        catalogue: the candidate types.
+        actions: the per-cell actions table (takedown or analysis CSV).
+        progress: called with (stage, done, total) as the matrix fills.
+        max_pairs: pairs per chunk (bounds memory).
+        workers: threads sharing the chunks (measured: one is faster on two cores, because the
+            exact solver inside already uses both and small numpy calls contend for the GIL).
+        fire_rule: where fire method A does not apply, "flag" the cell's fire
+            resistance as not verified (a warning) or "fail" the pair.
+    """
+    t0 = time.perf_counter()
+    params = scenario.params
+    ct = cell_table(scenario, actions)
+    batch = SectionBatch(catalogue.designs)
+    data = SectionData.of(batch)
+    ta = type_arrays(catalogue, data.extra_ties)
+    n_types = len(catalogue)
+    square = (~ta["circ"]) & (ta["b"] == ta["h"])
+    turnable = np.nonzero(~ta["circ"] & ~square)[0]
+    dg = scenario.materials.aggregate_mm
+
+    groups: dict[tuple, list[int]] = {}
+    for i in range(len(ct)):
+        groups.setdefault((ct.exposure[i], ct.fire[i]), []).append(i)
+    jobs = []
+    for key, cells in groups.items():
+        cells_arr = np.array(cells)
+        jobs.append((key, cells_arr, 0, np.arange(n_types)))
+        rot = cells_arr[ct.free[cells_arr]]
+        if rot.size and turnable.size:
+            jobs.append((key, rot, 1, turnable))
+    total_pairs = sum(len(c) * len(t) for _, c, _, t in jobs)
+    done = 0
+    acc: dict[str, list] = {k: [] for k in ("cell", "type", "orient", "util", "gov")}
+    n_cells = len(ct)
+    best_util = np.full(n_cells, np.inf)
+    best_type = np.full(n_cells, -1)
+    best_gov = np.full(n_cells, -1)
+    check_names: list[str] = []
+    rechecks = 0
+    checked = 0
+    tasks = []
+    for (exp, fire), cells_arr, orient, types_arr in jobs:
+        settings = _settings_for(exp, fire, dg, fire_rule)
+        per_chunk = max(1, max_pairs // len(types_arr))
+        for start in range(0, len(cells_arr), per_chunk):
+            tasks.append((cells_arr[start:start + per_chunk], types_arr, orient, settings))
+
+    def work(task):
+        cs, types_arr, orient, settings = task
+        # Only the types of each cell's own concrete grade.
+        cc = np.repeat(cs, len(types_arr))
+        tt = np.tile(types_arr, len(cs))
+        keep = ta["fck"][tt] == ct.fck[cc]
+        cc, tt = cc[keep], tt[keep]
+        if cc.size == 0:
+            return cs, types_arr, orient, cc, tt, np.zeros(0), np.zeros(0, dtype=int), [], 0
+        res, names = _check(data, cc, tt, ct, orient, settings, params, fast=True)
+        util = res.utilisation
+        gov = res.governing
+        # Re-check exactly where a resistance check (the only ones using the tabulated MRd)
+        # lies near 1.0 and could decide pass or fail.
+        umat = res.utilisation_matrix
+        cols = [k for k, c in enumerate(res.checks) if c.name in _RESISTANCE_CHECKS]
+        others = np.delete(umat, cols, axis=1)
+        u_res = umat[:, cols].max(axis=1)
+        band = np.nonzero((u_res >= RECHECK_BAND[0]) & (u_res <= RECHECK_BAND[1])
+                          & (others.max(axis=1) <= 1.0 + 1e-9))[0]
+        if band.size:
+            exact, _ = _check(data, cc[band], tt[band], ct, orient, settings, params, fast=False)
+            util[band] = exact.utilisation
+            gov[band] = exact.governing
+        return cs, types_arr, orient, cc, tt, util, gov, names, band.size
+
+    with ThreadPoolExecutor(max_workers=workers) as pool:
+        for cs, types_arr, orient, cc, tt, util, gov, names, n_band in pool.map(work, tasks):
+            done += len(cs) * len(types_arr)
+            checked += cc.size
+            rechecks += n_band
+            if progress:
+                progress("feasibility matrix", min(done, total_pairs), total_pairs)
+            if cc.size == 0:
+                continue
+            gid = _global_check_ids(names, check_names)
+            ok = util <= 1.0 + 1e-9
+            acc["cell"].append(cc[ok])
+            acc["type"].append(tt[ok])
+            acc["orient"].append(np.full(ok.sum(), orient, dtype=np.int8))
+            acc["util"].append(util[ok])
+            acc["gov"].append(gid[gov[ok]])
+            # best type per cell (for the diagnosis of cells no type can carry)
+            order = np.lexsort((util, cc))
+            first = np.ones(order.size, dtype=bool)
+            first[1:] = cc[order][1:] != cc[order][:-1]
+            sel = order[first]
+            better = util[sel] < best_util[cc[sel]]
+            tgt = cc[sel][better]
+            best_util[tgt] = util[sel][better]
+            best_type[tgt] = tt[sel][better]
+            best_gov[tgt] = gid[gov[sel][better]]
+    cand_cell = np.concatenate(acc["cell"]) if acc["cell"] else np.zeros(0, dtype=int)
+    cand_type = np.concatenate(acc["type"]) if acc["type"] else np.zeros(0, dtype=int)
+    cand_orient = np.concatenate(acc["orient"]) if acc["orient"] else np.zeros(0, dtype=np.int8)
+    util = np.concatenate(acc["util"]) if acc["util"] else np.zeros(0)
+    gov = np.concatenate(acc["gov"]) if acc["gov"] else np.zeros(0, dtype=int)
+    q = quantities(ct, ta, cand_cell, cand_type, scenario)
+    best_check = [check_names[g] if g >= 0 else "" for g in best_gov]
+    return Feasibility(
+        catalogue=catalogue, cells=ct, cand_cell=cand_cell, cand_type=cand_type, cand_orient=cand_orient,
+        utilisation=util, governing=gov, check_names=check_names, best_util=best_util, best_type=best_type,
+        best_check=best_check, pairs_checked=checked,
+        exact_rechecks=rechecks, seconds=time.perf_counter() - t0, **q,
+    )
+
+
+def _global_check_ids(names: list[str], registry: list[str]) -> np.ndarray:
+    ids = []
+    for n in names:
+        if n not in registry:
+            registry.append(n)
+        ids.append(registry.index(n))
+    return np.array(ids, dtype=int)
+
+
+def _check(data: SectionData, cc: np.ndarray, tt: np.ndarray, ct: CellTable, orient: int, settings: CheckSettings,
+           params, fast: bool):
+    """Member check of pairs (cell cc, type tt); orientation 1 swaps the plan axes."""
+    if orient == 0:
+        acts = ColumnActions(NEd=ct.NEd[cc], My_top=ct.My_top[cc], My_bot=ct.My_bot[cc], Mz_top=ct.Mz_top[cc],
+                             Mz_bot=ct.Mz_bot[cc], l0y=ct.l0y[cc], l0z=ct.l0z[cc], l_clear=ct.l_clear[cc],
+                             l0_fi=ct.l0_fi[cc])
+    else:
+        acts = ColumnActions(NEd=ct.NEd[cc], My_top=ct.Mz_top[cc], My_bot=ct.Mz_bot[cc], Mz_top=ct.My_top[cc],
+                             Mz_bot=ct.My_bot[cc], l0y=ct.l0z[cc], l0z=ct.l0y[cc], l_clear=ct.l_clear[cc],
+                             l0_fi=ct.l0_fi[cc])
+    res = check_members(data, tt, acts, settings, params, fast=fast)
+    names = [f"{c.name} ({c.clause})" for c in res.checks]
+    return res, names
+
+
+def quantities(ct: CellTable, ta: dict, cell: np.ndarray, typ: np.ndarray, scenario: Scenario) -> dict:
+    """Quantities per candidate (kg, m3, m2).
+
+    Main bars run the floor-to-floor height plus the lap into the storey above
+    (none at the top of a stack); lap length by EN 1992-1-1 8.7.3 with alpha6 =
+    1.5 (all bars lapped at one section). Links by the spacing rules of 9.5.3
+    (reduced zones near the slabs and over the lap), each a closed link around
+    the bars with two 135-degree hooks of 10 diameters (common practice), plus
+    the extra ties of 9.5.3(6). Bar mass from the nominal area and 7850 kg/m3.
+    """
+    params = scenario.params
+    if cell.size == 0:
+        z = np.zeros(0)
+        return dict(main_kg=z, lap_kg=z, link_kg=z, concrete_m3=z, formwork_m2=z, plan_m2=z)
+    As, Ac = ta["As"][typ], ta["Ac"][typ]
+    fck = ct.fck[cell]
+    lap = laps.lap_length(ta["max_dia"][typ], fck, scenario.materials.fyk_MPa, params=params)
+    lap = np.where(ct.has_above[cell], lap, 0.0)
+    kg_per_mm = As * 1e-9 * STEEL_DENSITY  # mm2 x mm -> m3 x density
+    main_kg = kg_per_mm * (ct.height[cell] + lap)
+    lap_kg = kg_per_mm * lap
+    b, h, circ = ta["b"][typ], ta["h"][typ], ta["circ"][typ]
+    link = ta["link"][typ]
+    cov = ta["cover"][typ]
+    inner_b, inner_h = b - 2 * cov - link, h - 2 * cov - link
+    perim = np.where(circ, math.pi * (b - 2 * cov - link), 2 * (inner_b + inner_h)) + 2 * 10 * link
+    n_links = detailing.link_count(ct.l_clear[cell], np.maximum(b, h), ta["link_spacing"][typ],
+                                   ta["max_dia"][typ], np.where(ct.has_above[cell], lap, 0.0), params)
+    tie_len = TIE_LENGTH_FACTOR * np.minimum(b, h) + 2 * 10 * link
+    link_area = math.pi * link**2 / 4
+    link_kg = (n_links * perim + n_links * ta["extra_ties"][typ] * tie_len) * link_area * 1e-9 * STEEL_DENSITY
+    clear_m = ct.l_clear[cell] / 1000.0
+    concrete = Ac * 1e-6 * clear_m
+    formwork = np.where(circ, math.pi * b, 2 * (b + h)) * 1e-3 * clear_m
+    return dict(main_kg=main_kg, lap_kg=lap_kg, link_kg=link_kg, concrete_m3=concrete, formwork_m2=formwork,
+                plan_m2=Ac * 1e-6)
+
+
+
+def candidate_cost_carbon(feas: Feasibility, costs) -> tuple[np.ndarray, np.ndarray]:
+    """Cost and embodied carbon (A1-A3) per candidate from the rates of ``costs``.
+
+    Cost = steel t x rate + concrete m3 x rate(grade) + formwork m2 x rate + plan m2 x rate
+    (NaN when no money rates were given); carbon = steel kg x factor + concrete m3 x factor(grade).
+    """
+    from optimizer.settings import carbon_per_m3
+
+    fck = feas.cells.fck[feas.cand_cell]
+    carbon = feas.steel_kg * costs.steel_carbon_per_kg + feas.concrete_m3 * np.vectorize(
+        lambda f: carbon_per_m3(f, costs.concrete_carbon_per_kg))(fck) if feas.cand_cell.size else np.zeros(0)
+    if not costs.has_cost:
+        return np.full(feas.cand_cell.size, np.nan), carbon
+    conc_rate = np.vectorize(costs.concrete_rate)(fck) if feas.cand_cell.size else np.zeros(0)
+    cost = (feas.steel_kg / 1000.0 * costs.steel_per_t + feas.concrete_m3 * conc_rate
+            + feas.formwork_m2 * (costs.formwork_per_m2 or 0.0) + feas.plan_m2 * (costs.plan_area_per_m2 or 0.0))
+    return cost, carbon
+
+
+def to_problem(feas: Feasibility, scenario: Scenario, run) -> ScheduleProblem:
+    """The scheduling problem of the building: cells, stack continuity, types and candidates."""
+    from optimizer.graph import build_stack_graph, cell_above
+
+    graph = build_stack_graph(scenario)
+    index = {c.id: c.index for c in scenario.cells}
+    above = np.array([index[a] if (a := cell_above(graph, c.id)) is not None else -1 for c in scenario.cells])
+    stack_ids = tuple(s.id for s in scenario.stacks)
+    stack_of = {s: i for i, s in enumerate(stack_ids)}
+    ta = type_arrays(feas.catalogue, np.zeros(len(feas.catalogue), dtype=int))
+    sec_ids: dict[str, int] = {}
+    section = np.array([sec_ids.setdefault(t.section_key, len(sec_ids)) for t in feas.catalogue.types])
+    types = TypeTable(
+        mark=tuple(t.mark for t in feas.catalogue.types), circ=ta["circ"], b=ta["b"], h=ta["h"], nb=ta["nb"],
+        nh=ta["nh"], dia=ta["dia"], corner_dia=ta["corner_dia"], fck=ta["fck"], section=section,
+        starter_kg_per_m=ta["As"] * 1e-6 * STEEL_DENSITY,
+    )
+    cost, carbon = candidate_cost_carbon(feas, run.costs)
+    return ScheduleProblem(
+        cell_names=feas.cells.cells, stack_names=stack_ids,
+        stack=np.array([stack_of[c.stack] for c in scenario.cells]), above=above,
+        stack_free=np.array([s.orientation is Orientation.FREE for s in scenario.stacks]),
+        types=types, cand_cell=feas.cand_cell, cand_type=feas.cand_type, cand_orient=feas.cand_orient,
+        steel_kg=feas.steel_kg, cost=np.nan_to_num(cost, nan=0.0), carbon=carbon, utilisation=feas.utilisation,
+        rules=run.rules, objective=run.objective,
+        storey_height_mm=feas.cells.height,
+    )
