@@ -293,17 +293,22 @@ class MemberChecks:
     checks: list[CheckColumn]
     values: dict[str, np.ndarray] = field(default_factory=dict)
 
-    @property
+    @functools.cached_property
     def utilisation_matrix(self) -> np.ndarray:
         """(pairs, checks) utilisations."""
         return np.stack([c.utilisation for c in self.checks], axis=1)
 
     @property
     def utilisation(self) -> np.ndarray:
-        """Largest utilisation per pair (inf where a method does not apply)."""
-        return self.utilisation_matrix.max(axis=1)
+        """Utilisation of the governing check per pair (inf where a blocking method does not apply).
 
-    @property
+        This is the largest utilisation, except where NEd exceeds NRd: then the axial check
+        governs and its ratio NEd/NRd is reported (the bending checks have no resistance left).
+        """
+        m = self.utilisation_matrix
+        return m[np.arange(m.shape[0]), self.governing]
+
+    @functools.cached_property
     def governing(self) -> np.ndarray:
         """Index into ``checks`` of the governing check per pair.
 

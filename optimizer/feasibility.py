@@ -277,6 +277,8 @@ def feasibility(
                           & (others.max(axis=1) <= 1.0 + 1e-9))[0]
         if band.size:
             exact, _ = _check(data, cc[band], tt[band], ct, orient, settings, params, fast=False)
+            util = util.copy()
+            gov = gov.copy()
             util[band] = exact.utilisation
             gov[band] = exact.governing
         return cs, types_arr, orient, cc, tt, util, gov, names, band.size
@@ -302,7 +304,7 @@ def feasibility(
             first = np.ones(order.size, dtype=bool)
             first[1:] = cc[order][1:] != cc[order][:-1]
             sel = order[first]
-            better = util[sel] < best_util[cc[sel]]
+            better = (util[sel] < best_util[cc[sel]]) | (best_type[cc[sel]] < 0)
             tgt = cc[sel][better]
             best_util[tgt] = util[sel][better]
             best_type[tgt] = tt[sel][better]
