@@ -35,6 +35,7 @@ test: $(STAMP_TEST)
 
 bench: $(STAMP_BENCH)
 	$(BIN)/python bench/bench_resistance.py
+	$(BIN)/python bench/bench_feasibility.py
 
 clean:
 	rm -rf $(VENV) demo_out .pytest_cache

@@ -39,6 +39,7 @@ __all__ = ["CellTable", "Feasibility", "cell_table", "feasibility", "RECHECK_BAN
 
 RECHECK_BAND = (0.99, 1.01)  # screened utilisations re-checked with the exact solver
 _RESISTANCE_CHECKS = ("bending about y", "bending about z", "biaxial interaction")
+_AXIAL_NAME = "axial resistance (EN 1992-1-1, 6.1)"
 TIE_LENGTH_FACTOR = 1.0  # an extra tie across the section is about one section width long (common practice)
 
 
@@ -223,6 +224,7 @@ def feasibility(
     batch = SectionBatch(catalogue.designs)
     data = SectionData.of(batch)
     ta = type_arrays(catalogue, data.extra_ties)
+    NRd = batch.NRd()
     n_types = len(catalogue)
     square = (~ta["circ"]) & (ta["b"] == ta["h"])
     turnable = np.nonzero(~ta["circ"] & ~square)[0]
@@ -264,17 +266,25 @@ def feasibility(
         cc, tt = cc[keep], tt[keep]
         if cc.size == 0:
             return cs, types_arr, orient, cc, tt, np.zeros(0), np.zeros(0, dtype=int), [], 0
-        res, names = _check(data, cc, tt, ct, orient, settings, params, fast=True)
-        util = res.utilisation
-        gov = res.governing
+        # A type whose squash load NRd is below NEd fails the axial check (6.1) whatever else
+        # holds: record that without running the full check.
+        axial = ct.NEd[cc] / NRd[tt]
+        full = np.nonzero(axial <= 1.0)[0]
+        util = axial.copy()
+        gov = np.zeros(cc.size, dtype=int)  # check 0 is the axial resistance check
+        if full.size == 0:
+            return cs, types_arr, orient, cc, tt, util, gov, [_AXIAL_NAME], 0
+        res, names = _check(data, cc[full], tt[full], ct, orient, settings, params, fast=True)
+        util[full] = res.utilisation
+        gov[full] = res.governing
         # Re-check exactly where a resistance check (the only ones using the tabulated MRd)
         # lies near 1.0 and could decide pass or fail.
         umat = res.utilisation_matrix
         cols = [k for k, c in enumerate(res.checks) if c.name in _RESISTANCE_CHECKS]
         others = np.delete(umat, cols, axis=1)
         u_res = umat[:, cols].max(axis=1)
-        band = np.nonzero((u_res >= RECHECK_BAND[0]) & (u_res <= RECHECK_BAND[1])
-                          & (others.max(axis=1) <= 1.0 + 1e-9))[0]
+        band = full[np.nonzero((u_res >= RECHECK_BAND[0]) & (u_res <= RECHECK_BAND[1])
+                               & (others.max(axis=1) <= 1.0 + 1e-9))[0]]
         if band.size:
             exact, _ = _check(data, cc[band], tt[band], ct, orient, settings, params, fast=False)
             util = util.copy()
