@@ -16,7 +16,7 @@ import numpy as np
 
 from design.member import ColumnActions, SectionData, check_column
 from design.resistance import SectionBatch
-from optimizer.catalogue import CatalogueSpec, Shape, build_catalogue
+from optimizer.catalogue import CatalogueSpec, build_catalogue
 from optimizer.feasibility import _check, _settings_for, cell_table, feasibility
 from optimizer.generate import generate_tower
 from optimizer.takedown import scenario_actions
