@@ -28,6 +28,15 @@ class InputError(ColstackError):
 
 
 class DesignImpossible(ColstackError):
-    """No design satisfies the rules (a cell no type can carry, an impossible stack)."""
+    """No design satisfies the rules (a cell no type can carry, an impossible stack).
+
+    ``details`` lists one sentence per problem; ``partial`` keeps what was computed
+    (e.g. the feasibility matrix) so that the caller can still write it.
+    """
 
     exit_code = EXIT_IMPOSSIBLE
+
+    def __init__(self, message: str, details: list[str] | None = None, **partial: object) -> None:
+        super().__init__(message)
+        self.details = list(details or [])
+        self.partial = partial

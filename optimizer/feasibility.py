@@ -145,6 +145,7 @@ class Feasibility:
     cand_orient: np.ndarray
     utilisation: np.ndarray
     governing: np.ndarray  # index into check_names
+    unverified: np.ndarray  # bool: fire resistance not verifiable by method A (kept only where nothing else is)
     main_kg: np.ndarray  # main bars over the storey incl. the lap into the storey above
     lap_kg: np.ndarray  # of which the lap
     link_kg: np.ndarray  # links and extra ties
@@ -242,7 +243,7 @@ def feasibility(
             jobs.append((key, rot, 1, turnable))
     total_pairs = sum(len(c) * len(t) for _, c, _, t in jobs)
     done = 0
-    acc: dict[str, list] = {k: [] for k in ("cell", "type", "orient", "util", "gov")}
+    acc: dict[str, list] = {k: [] for k in ("cell", "type", "orient", "util", "gov", "unverified")}
     n_cells = len(ct)
     best_util = np.full(n_cells, np.inf)
     best_type = np.full(n_cells, -1)
@@ -265,18 +266,20 @@ def feasibility(
         keep = ta["fck"][tt] == ct.fck[cc]
         cc, tt = cc[keep], tt[keep]
         if cc.size == 0:
-            return cs, types_arr, orient, cc, tt, np.zeros(0), np.zeros(0, dtype=int), [], 0
+            return cs, types_arr, orient, cc, tt, np.zeros(0), np.zeros(0, dtype=int), [], 0, np.zeros(0, bool)
         # A type whose squash load NRd is below NEd fails the axial check (6.1) whatever else
         # holds: record that without running the full check.
         axial = ct.NEd[cc] / NRd[tt]
         full = np.nonzero(axial <= 1.0)[0]
         util = axial.copy()
         gov = np.zeros(cc.size, dtype=int)  # check 0 is the axial resistance check
+        unver = np.zeros(cc.size, dtype=bool)
         if full.size == 0:
-            return cs, types_arr, orient, cc, tt, util, gov, [_AXIAL_NAME], 0
+            return cs, types_arr, orient, cc, tt, util, gov, [_AXIAL_NAME], 0, unver
         res, names = _check(data, cc[full], tt[full], ct, orient, settings, params, fast=True)
         util[full] = res.utilisation
         gov[full] = res.governing
+        unver[full] = res.unverified
         # Re-check exactly where a resistance check (the only ones using the tabulated MRd)
         # lies near 1.0 and could decide pass or fail.
         umat = res.utilisation_matrix
@@ -291,10 +294,10 @@ def feasibility(
             gov = gov.copy()
             util[band] = exact.utilisation
             gov[band] = exact.governing
-        return cs, types_arr, orient, cc, tt, util, gov, names, band.size
+        return cs, types_arr, orient, cc, tt, util, gov, names, band.size, unver
 
     with ThreadPoolExecutor(max_workers=workers) as pool:
-        for cs, types_arr, orient, cc, tt, util, gov, names, n_band in pool.map(work, tasks):
+        for cs, types_arr, orient, cc, tt, util, gov, names, n_band, unver in pool.map(work, tasks):
             done += len(cs) * len(types_arr)
             checked += cc.size
             rechecks += n_band
@@ -309,6 +312,7 @@ def feasibility(
             acc["orient"].append(np.full(ok.sum(), orient, dtype=np.int8))
             acc["util"].append(util[ok])
             acc["gov"].append(gid[gov[ok]])
+            acc["unverified"].append(unver[ok])
             # best type per cell (for the diagnosis of cells no type can carry)
             order = np.lexsort((util, cc))
             first = np.ones(order.size, dtype=bool)
@@ -324,11 +328,19 @@ def feasibility(
     cand_orient = np.concatenate(acc["orient"]) if acc["orient"] else np.zeros(0, dtype=np.int8)
     util = np.concatenate(acc["util"]) if acc["util"] else np.zeros(0)
     gov = np.concatenate(acc["gov"]) if acc["gov"] else np.zeros(0, dtype=int)
+    unverified = np.concatenate(acc["unverified"]) if acc["unverified"] else np.zeros(0, dtype=bool)
+    # A candidate whose fire resistance cannot be verified by method A is kept only in cells where no
+    # candidate can be verified (the run then warns); elsewhere the verified candidates are used.
+    verified_somewhere = np.zeros(n_cells, dtype=bool)
+    verified_somewhere[cand_cell[~unverified]] = True
+    keep = ~unverified | ~verified_somewhere[cand_cell]
+    cand_cell, cand_type, cand_orient = cand_cell[keep], cand_type[keep], cand_orient[keep]
+    util, gov, unverified = util[keep], gov[keep], unverified[keep]
     q = quantities(ct, ta, cand_cell, cand_type, scenario)
     best_check = [check_names[g] if g >= 0 else "" for g in best_gov]
     return Feasibility(
         catalogue=catalogue, cells=ct, cand_cell=cand_cell, cand_type=cand_type, cand_orient=cand_orient,
-        utilisation=util, governing=gov, check_names=check_names, best_util=best_util, best_type=best_type,
+        utilisation=util, governing=gov, unverified=unverified, check_names=check_names, best_util=best_util, best_type=best_type,
         best_check=best_check, pairs_checked=checked,
         exact_rechecks=rechecks, seconds=time.perf_counter() - t0, **q,
     )
