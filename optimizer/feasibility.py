@@ -340,7 +340,8 @@ def feasibility(
     best_check = [check_names[g] if g >= 0 else "" for g in best_gov]
     return Feasibility(
         catalogue=catalogue, cells=ct, cand_cell=cand_cell, cand_type=cand_type, cand_orient=cand_orient,
-        utilisation=util, governing=gov, unverified=unverified, check_names=check_names, best_util=best_util, best_type=best_type,
+        utilisation=util, governing=gov, unverified=unverified, check_names=check_names, best_util=best_util,
+        best_type=best_type,
         best_check=best_check, pairs_checked=checked,
         exact_rechecks=rechecks, seconds=time.perf_counter() - t0, **q,
     )

@@ -16,7 +16,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from design.member import MemberChecks, SectionData, check_members
+from design.member import MemberChecks, SectionData
 from design.resistance import SectionBatch
 from optimizer import __version__
 from optimizer.catalogue import Catalogue, build_catalogue
