@@ -24,6 +24,7 @@ _COMMAND_MODULES = (
     "optimizer.cli_takedown",
     "optimizer.cli_generate",
     "optimizer.cli_feasibility",
+    "optimizer.cli_run",
 )
 
 
