@@ -47,7 +47,7 @@ import numpy as np
 from design import detailing
 from design.cover import ExposureClass, cmin, cmin_b, cmin_dur, cnom, structural_class
 from design.fire import TABLE_5_2A, FireRating
-from design.materials import Concrete, Reinforcement
+from design.materials import Concrete, Reinforcement, parse_concrete_class
 from design.member import extra_ties
 from design.params import NationalParameters
 from design.resistance import DesignSection
@@ -86,6 +86,7 @@ class CatalogueSpec:
     min_size: float = 0.0
     exclude: tuple[str, ...] = ()
     explicit: tuple[tuple[float, float, float | None, str], ...] = ()  # (b, h, D, bars) — D for circles
+    grades: tuple[float, ...] = ()  # fck of the grades the optimiser may choose per cell (empty: the cell's own)
 
     def __post_init__(self) -> None:
         if not 0 < self.size_min <= self.size_max:
@@ -128,6 +129,7 @@ class Catalogue:
 
     types: tuple[ColumnType, ...]
     cover_note: str
+    grade_choice: bool = False  # True: every cell may take any grade of the catalogue
 
     def __len__(self) -> int:
         return len(self.types)
@@ -198,7 +200,18 @@ def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:
             raise InputError(t.file, f"catalogue.types[{i}].bars", item["bars"], str(exc)) from None
         explicit.append((item.get("b"), item.get("h"), item.get("diameter"), item["bars"]))
     kw["explicit"] = tuple(explicit)
-    _reject_unknown(t, {"sizes_mm", "shapes", "aspects", "bar_dias", "mixed_corners", "max_bar_pitch_mm",
+    grades = t.raw("grades", required=False)
+    if grades is not _MISSING:
+        if not isinstance(grades, list) or not grades:
+            raise InputError(t.file, t.key("grades"), grades, 'a list of concrete classes, e.g. ["C40/50", "C50/60"]')
+        fcks = []
+        for g in grades:
+            try:
+                fcks.append(parse_concrete_class(g))
+            except ValueError as exc:
+                raise InputError(t.file, t.key("grades"), g, str(exc)) from None
+        kw["grades"] = tuple(sorted(set(fcks)))
+    _reject_unknown(t, {"sizes_mm", "shapes", "aspects", "bar_dias", "grades", "mixed_corners", "max_bar_pitch_mm",
                         "max_steel_ratio", "cover_mm", "min_size_mm", "exclude", "types"})
     try:
         return CatalogueSpec(**kw)
@@ -297,7 +310,7 @@ def build_catalogue(scenario: Scenario, spec: CatalogueSpec | None = None) -> Ca
     cover_for, note = required_cover(scenario, spec, params)
     dg = scenario.materials.aggregate_mm
     steel = Reinforcement.with_params(scenario.materials.fyk_MPa, scenario.materials.ductility, params=params)
-    fcks = sorted({c.settings.fck_MPa for c in scenario.cells})
+    fcks = sorted(spec.grades) if spec.grades else sorted({c.settings.fck_MPa for c in scenario.cells})
     concretes = [Concrete.with_params(f, params) for f in fcks]
     excluded = {e.replace(" ", "").lower() for e in spec.exclude}
     sections: list[tuple[Shape, float, float, float | None]] = []
@@ -364,7 +377,7 @@ def build_catalogue(scenario: Scenario, spec: CatalogueSpec | None = None) -> Ca
         types.append(ColumnType(f"T{len(types) + 1}", ds, scl, shape))
     if not types:
         raise InputError(scenario.source, "catalogue", "", "generates no column type; widen sizes or bar_dias")
-    return Catalogue(tuple(types), note)
+    return Catalogue(tuple(types), note, grade_choice=bool(spec.grades))
 
 
 def _ratio_ok(sec, spec: CatalogueSpec, params: NationalParameters) -> bool:

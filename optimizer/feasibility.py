@@ -162,6 +162,11 @@ class Feasibility:
     notes: list[str] = field(default_factory=list)
 
     @property
+    def catalogue_fck(self) -> np.ndarray:
+        """Strength fck of every catalogue type, MPa."""
+        return np.array([t.design.concrete.fck for t in self.catalogue.types])
+
+    @property
     def steel_kg(self) -> np.ndarray:
         """Main bars + links per candidate, kg."""
         return self.main_kg + self.link_kg
@@ -260,11 +265,12 @@ def feasibility(
 
     def work(task):
         cs, types_arr, orient, settings = task
-        # Only the types of each cell's own concrete grade.
+        # The types of each cell's own concrete grade (or of any grade when the catalogue offers a choice).
         cc = np.repeat(cs, len(types_arr))
         tt = np.tile(types_arr, len(cs))
-        keep = ta["fck"][tt] == ct.fck[cc]
-        cc, tt = cc[keep], tt[keep]
+        if not catalogue.grade_choice:
+            keep = ta["fck"][tt] == ct.fck[cc]
+            cc, tt = cc[keep], tt[keep]
         if cc.size == 0:
             return cs, types_arr, orient, cc, tt, np.zeros(0), np.zeros(0, dtype=int), [], 0, np.zeros(0, bool)
         # A type whose squash load NRd is below NEd fails the axial check (6.1) whatever else
@@ -387,7 +393,7 @@ def quantities(ct: CellTable, ta: dict, cell: np.ndarray, typ: np.ndarray, scena
         z = np.zeros(0)
         return dict(main_kg=z, lap_kg=z, link_kg=z, concrete_m3=z, formwork_m2=z, plan_m2=z)
     As, Ac = ta["As"][typ], ta["Ac"][typ]
-    fck = ct.fck[cell]
+    fck = ta["fck"][typ]  # the type's own grade
     lap = laps.lap_length(ta["max_dia"][typ], fck, scenario.materials.fyk_MPa, params=params)
     lap = np.where(ct.has_above[cell], lap, 0.0)
     kg_per_mm = As * 1e-9 * STEEL_DENSITY  # mm2 x mm -> m3 x density
@@ -419,7 +425,7 @@ def candidate_cost_carbon(feas: Feasibility, costs) -> tuple[np.ndarray, np.ndar
     """
     from optimizer.settings import carbon_per_m3
 
-    fck = feas.cells.fck[feas.cand_cell]
+    fck = feas.catalogue_fck[feas.cand_type] if feas.cand_cell.size else np.zeros(0)
     carbon = feas.steel_kg * costs.steel_carbon_per_kg + feas.concrete_m3 * np.vectorize(
         lambda f: carbon_per_m3(f, costs.concrete_carbon_per_kg))(fck) if feas.cand_cell.size else np.zeros(0)
     if not costs.has_cost:

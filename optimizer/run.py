@@ -99,13 +99,15 @@ class RunResult:
 def _file_hash(path: str) -> str:
     h = hashlib.sha256()
     p = Path(path)
+    if not p.is_file():
+        return "in-memory"
     h.update(p.read_bytes())
     return h.hexdigest()[:16]
 
 
-def run_scenario(path: str, progress: Stage | None = None, time_limit_s: float | None = None,
-                 solver: str | None = None, max_types: int | None = None) -> RunResult:
-    """Run the main job on the scenario at ``path``.
+def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit_s: float | None = None,
+                 solver: str | None = None, max_types: int | None = None, label: str = "") -> RunResult:
+    """Run the main job on the scenario at ``path`` (or on a Scenario object, e.g. a variant).
 
     Raises:
         InputError: bad scenario (exit 2).
@@ -116,7 +118,8 @@ def run_scenario(path: str, progress: Stage | None = None, time_limit_s: float |
     say = progress or (lambda *_: None)
     timings: dict[str, float] = {}
     t = time.perf_counter()
-    scenario = load_scenario(path)
+    scenario = path if isinstance(path, Scenario) else load_scenario(path)
+    path = scenario.source if isinstance(path, Scenario) else str(path)
     settings = read_run_settings(scenario)
     say("scenario", 1, 1)
     td = None
@@ -198,7 +201,7 @@ def run_scenario(path: str, progress: Stage | None = None, time_limit_s: float |
         feasibility=fe, problem=problem, schedule=schedule, chosen_cand=cand, chosen_type=chosen_type,
         chosen_orient=chosen_orient, checks=checks, types_used=_marks(cat, chosen_type), lower_bound=lb,
         premium=premium, baseline=base, timings_s=timings, warnings=warnings, notes=notes,
-        scenario_hash=_file_hash(path),
+        scenario_hash=_file_hash(path) + (f"+{label}" if label else ""),
     )
 
 
