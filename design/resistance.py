@@ -40,6 +40,7 @@ from __future__ import annotations
 
 import math
 import os
+import warnings
 from collections.abc import Sequence
 from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass
@@ -900,6 +901,14 @@ def moment_resistance_scalar(ds: DesignSection, NEd: float, axis: Axis) -> float
             M += force * c
         return N, M
 
+    with warnings.catch_warnings():
+        # quad reports round-off once it is at machine precision; the tolerance asked is far tighter than needed
+        warnings.simplefilter("ignore", integrate.IntegrationWarning)
+        return _solve_scalar(resultants, NEd)
+
+
+def _solve_scalar(resultants, NEd: float) -> float:  # noqa: ANN001
+    """MRd from a scalar resultants(s) -> (N, M) function by Brent's method on s in [0, 3]."""
     n_min, n_max = resultants(0.0)[0], resultants(3.0)[0]
     if not n_min <= NEd <= n_max:
         return 0.0
