@@ -132,7 +132,7 @@ def parse_check_spec(data: dict, path: str):
         fire=fire,
         mu_fi=number(path, "mu_fi", data.get("mu_fi", 0.7), positive=True, maximum=1.0),
         aggregate=spec.aggregate_mm,
-        working_life_100y=bool(data.get("working_life_100y", False)),
+        working_life_100y=_flag(path, data, "working_life_100y"),
     )
     l0_fi = None
     if "l0_fi" in data:
@@ -142,6 +142,13 @@ def parse_check_spec(data: dict, path: str):
         l0y=l0y, l0z=l0z, l_clear=height, l0_fi=l0_fi, phi_ef=phi_ef,
     )
     return spec, actions, settings, notes
+
+
+def _flag(path: str, data: dict, key: str) -> bool:
+    value = data.get(key, False)
+    if not isinstance(value, bool):
+        raise InputError(path, key, value, "true or false")
+    return value
 
 
 def _jsonable(x: Any) -> Any:

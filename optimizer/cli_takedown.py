@@ -117,36 +117,42 @@ def summary_text(scenario: Scenario, result: TakedownResult | None) -> str:
 
 
 def _execute(args: argparse.Namespace, err: TextIO) -> list[Path]:
+    """Read and compute everything first, then write all files at once into a fresh folder."""
+    from optimizer.outputs import atomic_folder
+
     progress = Progress(err, enabled=not args.quiet)
     scenario = load_scenario(args.scenario)
     out = Path(args.out)
-    out.mkdir(parents=True, exist_ok=True)
-    written = []
+    protect = [Path(args.scenario).resolve().parent]
     if scenario.actions_file is not None:
+        protect.append(Path(scenario.actions_file).resolve().parent)
         actions = read_actions_csv(scenario.actions_file, scenario)
-        written.append(write_actions_csv(actions, out / "actions.csv"))
         result = None
     else:
         result = takedown(scenario, progress=progress)
-        written.append(write_actions_csv(result.actions, out / "actions.csv"))
-        for name, df in (("takedown_detail.csv", result.detail),
-                         ("reactions.csv", result.reactions),
-                         ("level_totals.csv", result.level_totals)):
-            df.to_csv(out / name, index=False, float_format="%.3f", lineterminator="\n")
-            written.append(out / name)
-        if not args.no_plans:
-            from optimizer.plans import distinct_floors, plot_plan
+        actions = result.actions
+    names: list[str] = []
+    with atomic_folder(out, protect=protect) as tmp:
+        write_actions_csv(actions, tmp / "actions.csv")
+        names.append("actions.csv")
+        if result is not None:
+            for name, df in (("takedown_detail.csv", result.detail),
+                             ("reactions.csv", result.reactions),
+                             ("level_totals.csv", result.level_totals)):
+                df.to_csv(tmp / name, index=False, float_format="%.3f", lineterminator="\n")
+                names.append(name)
+            if not args.no_plans:
+                from optimizer.plans import distinct_floors, plot_plan
 
-            groups = distinct_floors(scenario, result.tributary)
-            for i, levels in enumerate(groups):
-                name = levels[0] if len(levels) == 1 else f"{levels[0]}-{levels[-1]}"
-                written.append(plot_plan(scenario, result.tributary, levels,
-                                         out / "plans" / f"plan_{name}.png"))
-                progress("plan pictures", i + 1, len(groups))
-    summary = out / "summary.txt"
-    summary.write_text(summary_text(scenario, result), encoding="utf-8")
-    written.append(summary)
-    return written
+                groups = distinct_floors(scenario, result.tributary)
+                for i, levels in enumerate(groups):
+                    name = levels[0] if len(levels) == 1 else f"{levels[0]}-{levels[-1]}"
+                    plot_plan(scenario, result.tributary, levels, tmp / "plans" / f"plan_{name}.png")
+                    names.append(f"plans/plan_{name}.png")
+                    progress("plan pictures", i + 1, len(groups))
+        (tmp / "summary.txt").write_text(summary_text(scenario, result), encoding="utf-8")
+        names.append("summary.txt")
+    return [out / n for n in names]
 
 
 def run(args: argparse.Namespace) -> int:

@@ -30,7 +30,7 @@ def _relaxations(rules: Rules) -> list[tuple[str, Rules]]:
     if rules.monotone_bars:
         out.append(("bars", replace(rules, monotone_bars=False)))
     if rules.monotone_sections:
-        out.append(("sections", replace(rules, monotone_sections=False, step_rule=StepRule.STARTERS)))
+        out.append(("sections", replace(rules, monotone_sections=False)))
     if rules.monotone_grade:
         out.append(("grade", replace(rules, monotone_grade=False)))
     if StepRule(rules.step_rule) is not StepRule.STARTERS:

@@ -16,6 +16,7 @@ used, so no failing design is ever called feasible.
 
 from __future__ import annotations
 
+import dataclasses
 import math
 import time
 from collections.abc import Callable
@@ -436,6 +437,21 @@ def candidate_cost_carbon(feas: Feasibility, costs) -> tuple[np.ndarray, np.ndar
     return cost, carbon
 
 
+def _pin(feas: Feasibility, scenario: Scenario, pin: tuple) -> tuple[int, int]:
+    """(cell index, type index) of a pinned cell; the type is looked up by section, bars and grade."""
+    from design.materials import parse_concrete_class
+
+    stack, level, section, bars, grade = pin
+    cell = scenario.cell((stack, level))
+    fck = parse_concrete_class(grade) if grade else cell.settings.fck_MPa
+    for k, t in enumerate(feas.catalogue.types):
+        if (t.section_key == section and t.design.section.bars.notation == bars
+                and t.design.concrete.fck == fck):
+            return cell.index, k
+    raise InputError(scenario.source, "rules.pinned", f"{stack} at {level}: {section} {bars}",
+                     "a section and bars of the catalogue at the cell's grade (see catalogue.csv)")
+
+
 def to_problem(feas: Feasibility, scenario: Scenario, run) -> ScheduleProblem:
     """The scheduling problem of the building: cells, stack continuity, types and candidates."""
     from optimizer.graph import build_stack_graph, cell_above
@@ -454,12 +470,15 @@ def to_problem(feas: Feasibility, scenario: Scenario, run) -> ScheduleProblem:
         starter_kg_per_m=ta["As"] * 1e-6 * STEEL_DENSITY,
     )
     cost, carbon = candidate_cost_carbon(feas, run.costs)
+    rules = run.rules
+    if run.pinned:
+        rules = dataclasses.replace(rules, pinned=tuple(_pin(feas, scenario, p) for p in run.pinned))
     return ScheduleProblem(
         cell_names=feas.cells.cells, stack_names=stack_ids,
         stack=np.array([stack_of[c.stack] for c in scenario.cells]), above=above,
         stack_free=np.array([s.orientation is Orientation.FREE for s in scenario.stacks]),
         types=types, cand_cell=feas.cand_cell, cand_type=feas.cand_type, cand_orient=feas.cand_orient,
         steel_kg=feas.steel_kg, cost=np.nan_to_num(cost, nan=0.0), carbon=carbon, utilisation=feas.utilisation,
-        rules=run.rules, objective=run.objective,
+        rules=rules, objective=run.objective,
         storey_height_mm=feas.cells.height,
     )

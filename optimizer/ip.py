@@ -39,6 +39,7 @@ import pulp
 from optimizer.heuristic import (
     _Prepared,
     _run_states,
+    baseline,
     cellwise_lower_bound,
     figures,
     rationalise,
@@ -64,6 +65,7 @@ __all__ = [
 
 SolverName = Literal["highs", "cbc"]
 Backend = Literal["auto", "pulp", "highspy"]
+TypePool = Literal["all", "paths"]
 _EPS = 1e-6
 
 
@@ -91,12 +93,15 @@ class Reduction:
         rep: representative cell of every cell (itself unless its stack was merged into an identical one).
         mult: number of identical cells each representative stands for (0 for merged-away cells).
         notes: what was reduced, in words.
+        lower_bound: a valid lower bound on the optimum of the full problem (sum over stacks of their cheapest
+            path ignoring the minimum run, plus the least price of types and sections), -inf when not computed.
     """
 
     keep: np.ndarray
     rep: np.ndarray
     mult: np.ndarray
     notes: tuple[str, ...] = ()
+    lower_bound: float = -np.inf
 
 
 def _stack_signature(prep: _Prepared, s: int) -> bytes | None:
@@ -112,7 +117,8 @@ def _stack_signature(prep: _Prepared, s: int) -> bytes | None:
 
 
 def reduce_problem(problem: ScheduleProblem, incumbent: np.ndarray | None = None,
-                   merge_stacks: bool = True, prune_paths: bool = True) -> Reduction:
+                   merge_stacks: bool = True, prune_paths: bool = True,
+                   type_pool: np.ndarray | None = None) -> Reduction:
     """Safe reductions: merge identical stacks, drop candidates that cannot be in an optimal schedule.
 
     Args:
@@ -121,6 +127,8 @@ def reduce_problem(problem: ScheduleProblem, incumbent: np.ndarray | None = None
         merge_stacks: merge stacks with identical candidates, weights and storey heights (not grouped, not pinned).
         prune_paths: drop candidates on no buildable path of their stack, and (with an incumbent) those whose
             cheapest path is too dear.
+        type_pool: boolean mask of types the model may use (the decomposition's type pool); this one is not safe:
+            the optimum over the pool may be worse than the full optimum.
 
     Returns:
         The reduction; solving the reduced model and expanding gives an optimum of the full problem.
@@ -156,6 +164,9 @@ def reduce_problem(problem: ScheduleProblem, incumbent: np.ndarray | None = None
         if mult[c] > 0:
             keep[prep.cell_cands(c)] = True
     if not prune_paths or prep.problems:
+        if type_pool is not None:
+            keep &= type_pool[p.cand_type]
+            notes.append(f"type pool of {int(type_pool.sum())} types (decomposition: not a safe reduction)")
         return Reduction(keep, rep, mult, tuple(notes))
     # per unit and orientation: forward / backward cheapest paths ignoring the minimum run (a relaxation)
     through = np.full(len(p.cand_cell), np.inf)  # cheapest path of the unit through the candidate, x multiplicity
@@ -194,12 +205,16 @@ def reduce_problem(problem: ScheduleProblem, incumbent: np.ndarray | None = None
     slack = np.inf
     if incumbent is not None:
         slack = figures(p, incumbent).objective - lb_total - price_lb
-    excess = through - unit_lb[p.cand_cell]
+    with np.errstate(invalid="ignore"):
+        excess = through - unit_lb[p.cand_cell]
     keep &= np.isfinite(through) & ~(excess > slack + 1e-7 * max(1.0, abs(lb_total)))
+    if type_pool is not None:
+        keep &= type_pool[p.cand_type]
+        notes.append(f"type pool of {int(type_pool.sum())} types (decomposition: not a safe reduction)")
     notes.append(f"{n_before - int(keep.sum())} of {n_before} candidates pruned (no buildable path"
                  + (f", or dearer than the incumbent by more than the slack {slack:.6g})" if incumbent is not None
                     else ")"))
-    return Reduction(keep, rep, mult, tuple(notes))
+    return Reduction(keep, rep, mult, tuple(notes), lower_bound=lb_total + price_lb)
 
 
 # --------------------------------------------------------------------------------------------
@@ -848,7 +863,8 @@ def _cbc_bound(log: str) -> float:
 def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: float = 60.0,
           gap_rel: float = 0.01, max_types: int | None = None, warm_start: Schedule | None = None,
           progress: Callable[[str], None] | None = None, backend: Backend = "auto", reduce: bool = True,
-          threads: int | None = None, exact_decomposition: bool = True) -> Schedule:
+          threads: int | None = None, exact_decomposition: bool = True,
+          type_pool: TypePool = "all") -> Schedule:
     """Solve the scheduling problem to a proven gap (or the time limit).
 
     Args:
@@ -864,6 +880,9 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
         threads: solver threads (None: the solver's default).
         exact_decomposition: when nothing couples the stacks (no cap or price on types or sections), return
             the per-stack shortest paths, which are then optimal.
+        type_pool: "all" (every type: the solver's bound is a bound of the problem), or "paths" (decomposition:
+            only the types of the stacks' own cheapest paths, of the warm start and of the baseline; the reported
+            bound is then the per-stack bound of the full problem, not the solver's).
 
     Returns:
         The schedule with status, objective (recomputed from the problem), best bound and proven gap.
@@ -893,11 +912,28 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
             incumbent = heur.cand
             say(f"greedy warm start {heur.objective:.6g} in {time.perf_counter() - t0:.1f} s")
             notes.append(f"warm start (greedy type reduction): {heur.objective:.6g}")
+    pool_mask = None
+    if type_pool == "paths":
+        pool_mask = np.zeros(len(problem.types), dtype=bool)
+        for extra in (stack_optimum(problem), baseline(problem)):
+            if extra is not None:
+                pool_mask[problem.cand_type[extra.cand]] = True
+        if incumbent is not None:
+            pool_mask[problem.cand_type[incumbent]] = True
     t0 = time.perf_counter()
     red = reduce_problem(problem, incumbent if incumbent is not None else None, prune_paths=reduce,
-                         merge_stacks=reduce)
+                         merge_stacks=reduce, type_pool=pool_mask)
     say(f"reductions in {time.perf_counter() - t0:.1f} s: " + "; ".join(red.notes))
     notes += list(red.notes)
+    covered = np.zeros(problem.n_cells, dtype=bool)
+    covered[problem.cand_cell[red.keep]] = True
+    if (~covered & (red.mult > 0)).any():
+        c = int(np.flatnonzero(~covered & (red.mult > 0))[0])
+        notes.append(f"stack {problem.cell_names[c][0]}: level {problem.cell_names[c][1]} lies on no buildable "
+                     "path (see optimizer.diagnose)")
+        return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=Status.INFEASIBLE.value,
+                        objective=np.inf, bound=np.inf, gap=np.inf, solver="reductions",
+                        seconds=time.perf_counter() - t_all, notes=tuple(notes))
     t0 = time.perf_counter()
     form = formulate(problem, max_types=cap_t, reduction=red)
     start = _start_values(problem, form, incumbent) if incumbent is not None else None
@@ -925,12 +961,17 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
             status = Status.TIME_LIMIT
             notes.append("the solver kept no schedule: the warm start is returned")
         obj = figures(problem, cand).objective if incumbent is not None else np.inf
+        if status is not Status.INFEASIBLE:
+            out.bound = max(out.bound if pool_mask is None else -np.inf, red.lower_bound)
         gap = abs(obj - out.bound) / max(abs(obj), 1e-9) if np.isfinite(obj) and np.isfinite(out.bound) else np.inf
         return Schedule(cand=np.asarray(cand), status=status.value, objective=obj, bound=out.bound, gap=gap,
                         solver=label, seconds=time.perf_counter() - t_all, notes=tuple(notes))
     cand = _expand(problem, form, out.xval)
     fig = figures(problem, cand)
-    bound = min(out.bound, fig.objective) if np.isfinite(out.bound) else out.bound
+    bound = min(out.bound, fig.objective) if pool_mask is None else -np.inf
+    if pool_mask is not None and np.isfinite(out.bound):
+        notes.append(f"solver bound over the type pool only: {out.bound:.6g}")
+    bound = max(bound, red.lower_bound, cellwise_lower_bound(problem).value)
     gap = max(0.0, (fig.objective - bound) / max(abs(fig.objective), 1e-9)) if np.isfinite(bound) else np.inf
     status = _status_from(True, False, gap, gap_rel, out.status is Status.TIME_LIMIT)
     return Schedule(cand=cand, status=status.value, objective=fig.objective, bound=bound, gap=gap, solver=label,

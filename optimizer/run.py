@@ -171,7 +171,10 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
     timings["recheck"] = time.perf_counter() - t
     say("exact re-check", 1, 1)
 
+    from optimizer.plausibility import plausibility_warnings
+
     warnings = list(td.warnings) if td is not None else []
+    warnings += plausibility_warnings(scenario, actions, scenario.params)
     failing = np.nonzero(~checks.ok)[0]
     if failing.size:  # a bug, never expected: the matrix said feasible
         names = ", ".join(f"{fe.cells.cells[i][0]}@{fe.cells.cells[i][1]}" for i in failing[:5])

@@ -483,7 +483,10 @@ def _number(file: str, key: str, value: object, minimum: float | None = None,
             positive: bool = False, maximum: float | None = None) -> float:
     if isinstance(value, bool) or not isinstance(value, int | float):
         raise InputError(file, key, value, "a number")
-    x = float(value)
+    try:
+        x = float(value)
+    except OverflowError:
+        raise InputError(file, key, f"{str(value)[:12]}...", "a finite number of sensible size") from None
     if not math.isfinite(x):
         raise InputError(file, key, value, "a finite number")
     if positive and not x > 0:
@@ -540,9 +543,12 @@ def _read_parameters(top: _Table) -> tuple[ParameterSet, tuple[tuple[str, float]
 
 def _concrete(file: str, key: str, name: str) -> float:
     try:
-        return parse_concrete_class(name)
+        fck = parse_concrete_class(name)
     except ValueError as exc:
         raise InputError(file, key, name, f"a concrete class such as 'C30/37' ({exc})") from None
+    if not 12.0 <= fck <= 90.0:
+        raise InputError(file, key, name, "a class from C12/15 to C90/105 (EN 1992-1-1, 3.1.2(2)P)")
+    return fck
 
 
 def _read_levels(top: _Table) -> tuple[Level, ...]:
@@ -555,8 +561,8 @@ def _read_levels(top: _Table) -> tuple[Level, ...]:
         if name in seen:
             raise InputError(t.file, t.key("name"), name, "a level name used only once")
         seen.add(name)
-        height = t.num("height_m", positive=True)
-        slab = t.num("slab_depth_mm", minimum=0.0)
+        height = t.num("height_m", positive=True, maximum=1e4)
+        slab = t.num("slab_depth_mm", minimum=0.0, maximum=1e5)
         if slab >= height * 1000.0:
             raise InputError(t.file, t.key("slab_depth_mm"), slab,
                              f"a slab depth smaller than the floor-to-floor height "
@@ -604,8 +610,8 @@ def _read_materials(top: _Table, levels: Sequence[Level], stack_ids: Sequence[st
     fck = _concrete(t.file, t.key("concrete"), concrete)
     fyk = t.num("reinforcement_fyk_MPa", minimum=400.0, maximum=600.0)
     ductility = t.choice("ductility", Ductility)
-    agg = t.num("aggregate_mm", positive=True)
-    density = t.num("concrete_density_kN_m3", positive=True)
+    agg = t.num("aggregate_mm", positive=True, maximum=1e4)
+    density = t.num("concrete_density_kN_m3", positive=True, maximum=1e5)
     index = {lv.name: lv.index for lv in levels}
     names = [lv.name for lv in levels]
     zones = []
@@ -630,7 +636,7 @@ def _read_stacks(top: _Table, levels: Sequence[Level]) -> tuple[Stack, ...]:
         if sid in seen:
             raise InputError(t.file, t.key("id"), sid, "a stack id used only once")
         seen.add(sid)
-        x, y = t.num("x_m"), t.num("y_m")
+        x, y = t.num("x_m", minimum=-1e6, maximum=1e6), t.num("y_m", minimum=-1e6, maximum=1e6)
         orient = t.choice("orientation", Orientation, required=False, default=Orientation.B_ALONG_X)
         lo = t.str_("from_level")
         hi = t.str_("to_level")
@@ -743,9 +749,9 @@ def _read_floors(top: _Table, levels: Sequence[Level]) -> tuple[tuple[Floor, ...
                 holes.append(pts)
         floor = Floor(
             index=i, levels=rng, outline_m=outline, holes_m=tuple(holes),
-            sdl_kPa=t.num("sdl_kPa", minimum=0.0),
-            imposed_kPa=t.num("imposed_kPa", minimum=0.0),
-            facade_kN_m=t.num("facade_kN_m", minimum=0.0),
+            sdl_kPa=t.num("sdl_kPa", minimum=0.0, maximum=1e4),
+            imposed_kPa=t.num("imposed_kPa", minimum=0.0, maximum=1e4),
+            facade_kN_m=t.num("facade_kN_m", minimum=0.0, maximum=1e5),
             category=t.choice("category", Category, required=False),
             psi0=t.num("psi0", required=False, minimum=0.0, maximum=1.0),
         )
@@ -837,8 +843,8 @@ def _read_settings(top: _Table, levels: Sequence[Level], stack_ids: Sequence[str
             v = t.raw("trial_size_mm")
             if not isinstance(v, list) or len(v) != 2:
                 raise InputError(t.file, t.key("trial_size_mm"), v, "[b_mm, h_mm]")
-            b = _number(t.file, t.key("trial_size_mm") + "[0]", v[0], positive=True)
-            h = _number(t.file, t.key("trial_size_mm") + "[1]", v[1], positive=True)
+            b = _number(t.file, t.key("trial_size_mm") + "[0]", v[0], positive=True, maximum=1e6)
+            h = _number(t.file, t.key("trial_size_mm") + "[1]", v[1], positive=True, maximum=1e6)
             values["trial_size_mm"] = (b, h)
         rules.append(_Rule(sel_levels, sel_stacks, tuple(values.items())))
     return rules

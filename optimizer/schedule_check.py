@@ -119,7 +119,7 @@ def check_schedule(problem: ScheduleProblem, schedule: Schedule | np.ndarray) ->
                 if step > r.max_step_mm + _TOL:
                     out.append(f"{where}: a step of {step:g} mm per face exceeds {r.max_step_mm:g} mm")
         if r.min_run > 1:
-            for j, (sec, first) in enumerate(sections_run[:-1]):
+            for j, (_sec, first) in enumerate(sections_run[:-1]):
                 length = sections_run[j + 1][1] - first
                 if length < r.min_run:
                     lv_a = p.cell_names[chain[first]][1]

@@ -91,6 +91,7 @@ class RunSettings:
     solver: SolverOptions
     costs: CostFactors
     fire_rule: str = "flag"
+    pinned: tuple[tuple[str, str, str, str, str | None], ...] = ()  # (stack, level, section, bars, grade)
 
 
 def _grade_table(t: _Table, key: str) -> dict[float, float] | None:
@@ -129,6 +130,7 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
     src = scenario.source
     rules_kw: dict = {}
     fire_rule = "flag"
+    pinned: tuple = ()
     if "rules" in res:
         t = _Table(src, "rules", dict(res["rules"]))
         for key in ("monotone_sections", "monotone_bars", "monotone_grade"):
@@ -149,6 +151,8 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
         for key in ("max_types", "max_sections"):
             v = t.num(key, required=False, minimum=1)
             if v is not None:
+                if v != int(v):
+                    raise InputError(src, f"rules.{key}", v, "a whole number")
                 rules_kw[key] = int(v)
         for key in ("price_per_type", "price_per_section"):
             v = t.num(key, required=False, minimum=0)
@@ -164,6 +168,7 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
                     if sid not in known:
                         raise InputError(src, "rules.groups", sid, "a stack id of the scenario")
             rules_kw["groups"] = tuple(tuple(str(x) for x in g) for g in groups)
+        pinned = _read_pinned(scenario, t)
         fr = t.str_("fire_outside_method", required=False)
         if fr is not None:
             if fr not in ("fail", "flag"):
@@ -207,4 +212,27 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
         costs = CostFactors(**kw)
     if objective is Objective.COST and not costs.has_cost:
         raise InputError(src, "costs.steel_per_t", None, "needed for objective = 'cost' (no default money rates)")
-    return RunSettings(Rules(**rules_kw), objective, solver, costs, fire_rule)
+    return RunSettings(Rules(**rules_kw), objective, solver, costs, fire_rule, pinned)
+
+
+def _read_pinned(scenario: Scenario, t: _Table) -> tuple:
+    """``pinned = [{stack, level, section, bars, grade?}]``: cells that must take a given type."""
+    raw = t.raw("pinned", required=False)
+    if raw is _MISSING:
+        return ()
+    if not isinstance(raw, list):
+        raise InputError(t.file, t.key("pinned"), raw,
+                         'a list of tables {stack = "A1", level = "L01", section = "600x600", bars = "12H25"}')
+    out = []
+    for i, item in enumerate(raw):
+        key = f"{t.key('pinned')}[{i}]"
+        if not isinstance(item, dict) or not {"stack", "level", "section", "bars"} <= set(item):
+            raise InputError(t.file, key, item, "a table with stack, level, section and bars (and optionally grade)")
+        extra = set(item) - {"stack", "level", "section", "bars", "grade"}
+        if extra:
+            raise InputError(t.file, f"{key}.{sorted(extra)[0]}", item[sorted(extra)[0]], "unknown key")
+        if not scenario.has_cell((str(item["stack"]), str(item["level"]))):
+            raise InputError(t.file, key, f"{item['stack']} at {item['level']}", "a cell of the scenario")
+        out.append((str(item["stack"]), str(item["level"]), str(item["section"]).replace(" ", ""),
+                    str(item["bars"]).replace(" ", ""), str(item["grade"]) if "grade" in item else None))
+    return tuple(out)

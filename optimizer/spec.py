@@ -86,7 +86,10 @@ def number(path: str, field: str, value: Any, *, positive: bool = False, allow_z
     """Validate a finite number, with range limits; InputError otherwise."""
     if isinstance(value, bool) or not isinstance(value, (int, float)):
         raise InputError(path, field, value, f"a number{' in ' + unit if unit else ''}")
-    v = float(value)
+    try:
+        v = float(value)
+    except OverflowError:
+        raise InputError(path, field, f"{str(value)[:12]}...", "a finite number of sensible size") from None
     if not math.isfinite(v):
         raise InputError(path, field, value, "a finite number")
     if positive and (v < 0 or (v == 0 and not allow_zero)):
@@ -137,6 +140,8 @@ def section_spec(data: dict[str, Any], path: str, extra_keys: set[str] = frozens
     if "fck" in data and "grade" in data:
         raise InputError(path, "grade", data["grade"], "give either fck or grade, not both")
     if "grade" in data:
+        if not isinstance(data["grade"], str):
+            raise InputError(path, "grade", data["grade"], 'a concrete class as text, e.g. "C30/37"')
         try:
             fck = parse_concrete_class(data["grade"])
         except ValueError as exc:
