@@ -231,6 +231,7 @@ def atomic_folder(target: Path, protect: list[Path] = ()):
     except BaseException:
         shutil.rmtree(tmp, ignore_errors=True)
         raise
+    os.chmod(tmp, 0o755)  # mkdtemp makes it private; an output folder is for sharing
     old = None
     if target.exists():
         old = Path(tempfile.mkdtemp(prefix=f".{target.name}.old-", dir=target.parent))

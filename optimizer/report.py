@@ -67,6 +67,7 @@ table.schedule th.level { text-align: right; }
 .swatch { display: inline-block; min-width: 3.2em; padding: .05em .4em; border-radius: 3px; text-align: center;
           font-weight: bold; }
 .scroll { overflow-x: auto; }
+table.types td:nth-child(1) { font-weight: bold; }
 img.pic { max-width: min(100%, 820px); height: auto; display: block; margin: .4em 0 1em;
           border: 1px solid var(--rule); }
 img.pic.natural { max-width: none; }
@@ -89,6 +90,8 @@ footer { color: var(--muted); font-size: .85em; margin-top: 2.5em; border-top: 1
   img.pic, .figure, .caution, .verdict { break-inside: avoid; page-break-inside: avoid; }
   section.sheet { break-before: page; page-break-before: always; }
   .scroll { overflow: visible; }
+  table.schedule { font-size: 6.5pt; }
+  table.schedule td, table.schedule th { min-width: 0; padding: .1em .2em; }
   img.pic, img.pic.natural { width: auto !important; max-width: 100% !important; }
   nav { display: none; }
   * { -webkit-print-color-adjust: exact; print-color-adjust: exact; }
@@ -379,10 +382,11 @@ def _types(r: RunResult, tables: dict, folder: Path | None) -> str:
 
     colours = type_colours(r)
     df = tables["types"].copy()
+    df = df[[c for c in df.columns if not df[c].isna().all()]]  # e.g. no diameter column without circles
     out = ["<section class='major' id='types'><h2>5. Type catalogue</h2>",
            "<p class='sub'>b along plan y, h along plan z (as given; turned stacks swap them). Dimensions mm, "
            "areas mm2.</p>",
-           f"<div class='scroll'>{_table(df, digits={'rho_percent': 2})}</div>"]
+           f"<div class='scroll'>{_table(df, cls='types', digits={'rho_percent': 2})}</div>"]
     for u in r.types_used:
         c = colours[u.mark]
         ct = r.catalogue.types[u.type_index]

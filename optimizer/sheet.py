@@ -181,8 +181,7 @@ def build_sheet(
     sh.add("Biaxial bending", bi)
     sh.add("All checks", [
         Step(ch.name, f"{ch.demand:,.2f} <= {ch.capacity:,.2f} {ch.unit}".strip(), ch.note,
-             ("n/a: " if not ch.applicable else "") + f"{_f(ch.utilisation)} {'ok' if ch.ok else 'FAILS'}",
-             ch.clause)
+             _outcome(ch, flagged={c.name for c in result.unverified}), ch.clause)
         for ch in result.checks
     ])
     sh.add("Lap of the starter bars", [
@@ -195,7 +194,17 @@ def build_sheet(
     g = result.governing
     sh.verdict = (f"{'PASSES' if result.ok else 'FAILS'}: utilisation {_f(result.utilisation)}, "
                   f"governed by {g.name} ({g.clause})")
+    if result.unverified:
+        sh.verdict += "; not verified: " + ", ".join(c.name for c in result.unverified)
     return sh
+
+
+def _outcome(ch, flagged: set[str]) -> str:  # noqa: ANN001
+    if not ch.applicable:
+        if ch.name in flagged:
+            return "not verified: the method does not apply (flagged, see warnings)"
+        return "FAILS: the method does not apply"
+    return f"{_f(ch.utilisation)} {'ok' if ch.ok else 'FAILS'}"
 
 
 def render_text(sheet: Sheet) -> str:
