@@ -26,6 +26,7 @@ _COMMAND_MODULES = (
     "optimizer.cli_feasibility",
     "optimizer.cli_run",
     "optimizer.cli_compare",
+    "optimizer.cli_study",
 )
 
 

@@ -96,7 +96,8 @@ def compare_sentences(table: pd.DataFrame, reference: str | None = None) -> list
             if abs(d) < 0.5:
                 parts.append(f"the same {label}")
             else:
-                parts.append(f"{abs(d):.0f} % {'less' if d < 0 else 'more'} {label}")
+                size = f"{abs(d):.1f}" if abs(d) < 10 else f"{abs(d):.0f}"
+                parts.append(f"{size} % {'less' if d < 0 else 'more'} {label}")
         dt = int(row["types"]) - int(ref["types"])
         if dt:
             parts.append(f"{abs(dt)} {'fewer' if dt < 0 else 'more'} type{'s' if abs(dt) > 1 else ''}")
