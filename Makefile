@@ -25,9 +25,7 @@ $(STAMP_BENCH): pyproject.toml | $(BIN)/python
 	touch $@ $(STAMP_RUN)
 
 demo: $(STAMP_RUN)
-	$(BIN)/colstack section examples/section_600x400.toml
-	$(BIN)/colstack section examples/section_600x400.toml --json
-	$(BIN)/colstack section examples/section_600x400.toml --plot demo_out/section_600x400.png
+	$(BIN)/colstack run scenarios/demo_tower.toml --out demo_out
 
 test: $(STAMP_TEST)
 	$(BIN)/python -m ruff check design optimizer

@@ -149,8 +149,7 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
     t = time.perf_counter()
     problem = to_problem(fe, scenario, settings)
     opts = settings.solver
-    schedule = ip.solve(problem, solver=solver or opts.solver, time_limit_s=time_limit_s or opts.time_limit_s,
-                        gap_rel=opts.gap_rel, max_types=max_types,
+    schedule = optimise(problem, solver or opts.solver, time_limit_s or opts.time_limit_s, opts.gap_rel, max_types,
                         progress=lambda msg: say(f"integer program: {msg}", 0, 0))
     timings["optimise"] = time.perf_counter() - t
     if schedule.cand is None or len(schedule.cand) == 0 or np.any(np.asarray(schedule.cand) < 0):
@@ -206,6 +205,84 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
         premium=premium, baseline=base, timings_s=timings, warnings=warnings, notes=notes,
         scenario_hash=_file_hash(path) + (f"+{label}" if label else ""),
     )
+
+
+def _solve_child(conn, problem, solver, time_limit_s, gap_rel, max_types, warm):  # noqa: ANN001
+    """Child process: the integer program, with its result sent back through ``conn``."""
+    from optimizer import ip
+
+    try:
+        conn.send(ip.solve(problem, solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel, max_types=max_types,
+                           warm_start=warm))
+    except Exception as exc:  # noqa: BLE001 - reported to the parent as a note
+        conn.send(exc)
+    finally:
+        conn.close()
+
+
+def optimise(problem: ScheduleProblem, solver: str, time_limit_s: float, gap_rel: float, max_types: int | None,
+             progress: Callable[[str], None] | None = None) -> Schedule:
+    """The schedule within a hard time limit.
+
+    Without a cap or a price on types the stacks are independent and the exact
+    per-stack shortest paths are returned. Otherwise a greedy rationalised
+    schedule is found first (a feasible incumbent within seconds), then the
+    integer program runs in a child process, warm-started from it, and is
+    stopped at the time limit whatever phase the solver is in (some solvers
+    check their limit only between phases). The better schedule is returned
+    with the best proven bound; a schedule not proven within the gap is
+    labelled "time limit", never optimal.
+    """
+    import multiprocessing as mp
+
+    from optimizer import heuristic, ip
+
+    say = progress or (lambda _m: None)
+    t0 = time.perf_counter()
+    r = problem.rules
+    cap = max_types if max_types is not None else r.max_types
+    coupled = cap is not None or r.max_sections is not None or r.price_per_type > 0 or r.price_per_section > 0
+    if not coupled:
+        return ip.solve(problem, solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel, max_types=max_types,
+                        progress=say)
+    big = len(problem.cand_cell) > 200 * max(1, problem.n_cells)
+    warm = heuristic.rationalise(problem, max_types=cap, time_limit_s=max(5.0, 0.3 * time_limit_s),
+                                 per_cell=40 if big else None)
+    lb = heuristic.cellwise_lower_bound(problem).value
+    if warm is not None:
+        fig = heuristic.figures(problem, warm.cand)
+        say(f"greedy rationalised schedule {fig.objective:.6g} in {time.perf_counter() - t0:.1f} s")
+    remaining = time_limit_s - (time.perf_counter() - t0)
+    best = None
+    if remaining > 5.0:
+        ctx = mp.get_context("spawn")
+        parent, child = ctx.Pipe(duplex=False)
+        proc = ctx.Process(target=_solve_child, args=(child, problem, solver, 0.7 * remaining, gap_rel, max_types,
+                                                      warm), daemon=True)
+        proc.start()
+        child.close()
+        if parent.poll(remaining):
+            got = parent.recv()
+            best = got if isinstance(got, Schedule) else None
+            if best is None:
+                say(f"integer program failed: {got}")
+        else:
+            say(f"integer program stopped at the time limit ({time_limit_s:g} s)")
+        proc.terminate()
+        proc.join(5)
+    if best is not None and np.all(np.asarray(best.cand) >= 0):
+        if warm is None or best.objective <= heuristic.figures(problem, warm.cand).objective + 1e-9:
+            return best
+    if warm is None:
+        return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status="no schedule", objective=np.inf,
+                        bound=lb, gap=np.inf, solver=f"{solver} (stopped)", seconds=time.perf_counter() - t0)
+    obj = heuristic.figures(problem, warm.cand).objective
+    bound = max(lb, best.bound if best is not None and np.isfinite(best.bound) else -np.inf)
+    gap = max(0.0, (obj - bound) / max(abs(obj), 1e-9))
+    return Schedule(cand=np.asarray(warm.cand), status="optimal" if gap <= 1e-9 else "time limit", objective=obj,
+                    bound=bound, gap=gap, solver=f"greedy rationalisation; {solver} integer program within "
+                    f"{time_limit_s:g} s did not improve it", seconds=time.perf_counter() - t0,
+                    notes=("bound: cell-wise lower bound or the solver's, whichever is higher",))
 
 
 def recheck(scenario: Scenario, cat: Catalogue, fe: Feasibility, chosen_type: np.ndarray, chosen_orient: np.ndarray,
