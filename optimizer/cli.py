@@ -25,6 +25,7 @@ _COMMAND_MODULES = (
     "optimizer.cli_generate",
     "optimizer.cli_feasibility",
     "optimizer.cli_run",
+    "optimizer.cli_pareto",
     "optimizer.cli_compare",
     "optimizer.cli_study",
 )
