@@ -209,7 +209,12 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
 
 def _solve_child(conn, problem, solver, time_limit_s, gap_rel, max_types, warm):  # noqa: ANN001
     """Child process: the integer program, with its result sent back through ``conn``."""
+    import os
+
     from optimizer import ip
+
+    devnull = os.open(os.devnull, os.O_WRONLY)
+    os.dup2(devnull, 1)  # the solver library prints a banner on stdout; the user's terminal is the parent's
 
     try:
         conn.send(ip.solve(problem, solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel, max_types=max_types,
