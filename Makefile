@@ -34,6 +34,7 @@ test: $(STAMP_TEST)
 bench: $(STAMP_BENCH)
 	$(BIN)/python bench/bench_resistance.py
 	$(BIN)/python bench/bench_feasibility.py
+	$(BIN)/python bench/bench_ip.py
 
 clean:
 	rm -rf $(VENV) demo_out .pytest_cache
