@@ -53,6 +53,7 @@ __all__ = [
     "stack_dp",
     "stack_optimum",
     "rationalise",
+    "restrict",
     "cellwise_lower_bound",
     "baseline",
     "figures",
@@ -504,8 +505,31 @@ def stack_optimum(problem: ScheduleProblem, allowed_types: np.ndarray | None = N
                     solver="stack shortest paths", seconds=time.perf_counter() - t0)
 
 
+def restrict(problem: ScheduleProblem, per_cell: int) -> tuple[ScheduleProblem, np.ndarray]:
+    """The problem with only the ``per_cell`` lightest candidates of each cell (and every candidate of pinned cells).
+
+    A schedule of the restricted problem is a schedule of the full one (its candidates are a subset).
+
+    Returns:
+        The restricted problem and the index of each kept candidate in the full problem.
+    """
+    w = np.asarray(problem.weight(), dtype=float)
+    order = np.lexsort((w, problem.cand_cell))
+    cells = problem.cand_cell[order]
+    rank = np.arange(len(order)) - np.searchsorted(cells, cells, side="left")
+    keep = np.zeros(len(order), dtype=bool)
+    keep[order[rank < per_cell]] = True
+    for c, _t in problem.rules.pinned:
+        keep[problem.cand_cell == int(c)] = True
+    idx = np.flatnonzero(keep)
+    sub = replace(problem, cand_cell=problem.cand_cell[idx], cand_type=problem.cand_type[idx],
+                  cand_orient=problem.cand_orient[idx], steel_kg=problem.steel_kg[idx], cost=problem.cost[idx],
+                  carbon=problem.carbon[idx], utilisation=problem.utilisation[idx])
+    return sub, idx
+
+
 def rationalise(problem: ScheduleProblem, max_types: int | None = None, max_sections: int | None = None,
-                time_limit_s: float = 60.0) -> Schedule | None:
+                time_limit_s: float = 60.0, per_cell: int | None = None) -> Schedule | None:
     """A feasible rationalised schedule by greedy reduction of the type set (warm start for the integer program).
 
     Start from every stack on its own best path; then repeatedly drop the type
@@ -519,10 +543,17 @@ def rationalise(problem: ScheduleProblem, max_types: int | None = None, max_sect
         max_types: cap on distinct types (None: the rules' cap).
         max_sections: cap on distinct sections (None: the rules' cap).
         time_limit_s: stop dropping after this long (the schedule is still feasible, maybe over a cap).
+        per_cell: work only with the lightest ``per_cell`` candidates of each cell (faster on large catalogues;
+            None: all candidates). If that finds nothing, all candidates are tried.
 
     Returns:
         A schedule with status "heuristic" (or None when no schedule was found or a cap could not be met).
     """
+    if per_cell is not None:
+        sub, idx = restrict(problem, per_cell)
+        found = rationalise(sub, max_types, max_sections, time_limit_s, None)
+        if found is not None:
+            return replace(found, cand=idx[found.cand])
     t0 = time.perf_counter()
     r = problem.rules
     cap_t = max_types if max_types is not None else r.max_types
@@ -607,6 +638,25 @@ def rationalise(problem: ScheduleProblem, max_types: int | None = None, max_sect
             break
         for ui, (cost, mat) in chosen[2].items():
             paths[ui], costs[ui] = mat, cost
+        # while far above the cap, also apply other drops evaluated this round that cannot interfere:
+        # disjoint stacks re-routed, and no re-routed path uses a type dropped by another
+        dropped = set(chosen[1])
+        changed = set(chosen[2])
+        path_types = {int(t) for _, mat in chosen[2].values() for t in problem.cand_type[mat.ravel()]}
+        excess = (len(users) - cap_t) if cap_t is not None else 0
+        while heap and len(dropped) < excess // 2:
+            _, it = heapq.heappop(heap)
+            if it not in fresh or not np.isfinite(fresh[it][0]):
+                break
+            new = fresh[it][1]
+            new_types = {int(t) for _, mat in new.values() for t in problem.cand_type[mat.ravel()]}
+            if changed & set(new) or set(it) & path_types or new_types & dropped:
+                continue
+            for ui, (cost, mat) in new.items():
+                paths[ui], costs[ui] = mat, cost
+            dropped |= set(it)
+            changed |= set(new)
+            path_types |= new_types
         users = used_types()
         allowed[:] = False
         allowed[list(users)] = True

@@ -28,7 +28,7 @@ import re
 import tempfile
 import time
 from collections.abc import Callable
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from enum import StrEnum
 from pathlib import Path
 from typing import Literal
@@ -37,6 +37,7 @@ import numpy as np
 import pulp
 
 from optimizer.heuristic import (
+    _Level,
     _Prepared,
     _run_states,
     baseline,
@@ -163,6 +164,12 @@ def reduce_problem(problem: ScheduleProblem, incumbent: np.ndarray | None = None
     for c in range(n):
         if mult[c] > 0:
             keep[prep.cell_cands(c)] = True
+    if type_pool is not None:
+        for unit in prep.units:
+            for o, levels in unit.orients.items():
+                unit.orients[o] = [_Level(lv.types[type_pool[lv.types]], lv.cands[type_pool[lv.types]],
+                                          lv.weight[type_pool[lv.types]], lv.starter[type_pool[lv.types]])
+                                   for lv in levels]
     if not prune_paths or prep.problems:
         if type_pool is not None:
             keep &= type_pool[p.cand_type]
@@ -214,7 +221,8 @@ def reduce_problem(problem: ScheduleProblem, incumbent: np.ndarray | None = None
     notes.append(f"{n_before - int(keep.sum())} of {n_before} candidates pruned (no buildable path"
                  + (f", or dearer than the incumbent by more than the slack {slack:.6g})" if incumbent is not None
                     else ")"))
-    return Reduction(keep, rep, mult, tuple(notes), lower_bound=lb_total + price_lb)
+    valid = type_pool is None  # over a pool, the paths bound only the pool's optimum
+    return Reduction(keep, rep, mult, tuple(notes), lower_bound=lb_total + price_lb if valid else -np.inf)
 
 
 # --------------------------------------------------------------------------------------------
@@ -907,7 +915,9 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
         incumbent = np.asarray(warm_start.cand)
     else:
         t0 = time.perf_counter()
-        heur = rationalise(problem, max_types=cap_t, time_limit_s=max(5.0, 0.25 * time_limit_s))
+        big = len(problem.cand_cell) > 200 * max(1, problem.n_cells) or len(problem.cand_cell) > 1_000_000
+        heur = rationalise(problem, max_types=cap_t, time_limit_s=max(5.0, 0.25 * time_limit_s),
+                           per_cell=40 if big else None)
         if heur is not None:
             incumbent = heur.cand
             say(f"greedy warm start {heur.objective:.6g} in {time.perf_counter() - t0:.1f} s")
@@ -915,9 +925,11 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
     pool_mask = None
     if type_pool == "paths":
         pool_mask = np.zeros(len(problem.types), dtype=bool)
-        for extra in (stack_optimum(problem), baseline(problem)):
-            if extra is not None:
-                pool_mask[problem.cand_type[extra.cand]] = True
+        lightest = cellwise_lower_bound(problem).cand
+        pool_mask[problem.cand_type[lightest[lightest >= 0]]] = True
+        base = baseline(problem)
+        if base is not None:
+            pool_mask[problem.cand_type[base.cand]] = True
         if incumbent is not None:
             pool_mask[problem.cand_type[incumbent]] = True
     t0 = time.perf_counter()
@@ -925,6 +937,10 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
                          merge_stacks=reduce, type_pool=pool_mask)
     say(f"reductions in {time.perf_counter() - t0:.1f} s: " + "; ".join(red.notes))
     notes += list(red.notes)
+    if pool_mask is not None and len(problem.cand_cell) <= 1_000_000:
+        # the per-stack bound of the full problem (the pool's own bound is not one)
+        full = reduce_problem(problem, None, merge_stacks=reduce, prune_paths=True)
+        red = replace(red, lower_bound=full.lower_bound)
     covered = np.zeros(problem.n_cells, dtype=bool)
     covered[problem.cand_cell[red.keep]] = True
     if (~covered & (red.mult > 0)).any():
