@@ -55,7 +55,8 @@ from design.sections import CircBars, CircSection, RectBars, RectSection, parse_
 from optimizer.errors import InputError
 from optimizer.scenario import _MISSING, Scenario, _Table
 
-__all__ = ["Shape", "CatalogueSpec", "ColumnType", "Catalogue", "read_catalogue_spec", "build_catalogue"]
+__all__ = ["Shape", "CatalogueSpec", "ColumnType", "Catalogue", "read_catalogue_spec", "build_catalogue",
+           "reject_unknown"]
 
 LINK_DIAS = (8.0, 10.0, 12.0, 16.0)
 STEEL_DENSITY = 7850.0  # kg/m3, nominal mass of reinforcing steel (EN 10080 nominal mass)
@@ -161,7 +162,7 @@ def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:
         kw["size_min"] = sizes.num("min", positive=True)
         kw["size_max"] = sizes.num("max", positive=True)
         kw["size_step"] = sizes.num("step", positive=True)
-        _reject_unknown(sizes, {"min", "max", "step"})
+        reject_unknown(sizes, {"min", "max", "step"})
     shapes = t.raw("shapes", required=False)
     if isinstance(shapes, list):
         try:
@@ -211,7 +212,7 @@ def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:
             except ValueError as exc:
                 raise InputError(t.file, t.key("grades"), g, str(exc)) from None
         kw["grades"] = tuple(sorted(set(fcks)))
-    _reject_unknown(t, {"sizes_mm", "shapes", "aspects", "bar_dias", "grades", "mixed_corners", "max_bar_pitch_mm",
+    reject_unknown(t, {"sizes_mm", "shapes", "aspects", "bar_dias", "grades", "mixed_corners", "max_bar_pitch_mm",
                         "max_steel_ratio", "cover_mm", "min_size_mm", "exclude", "types"})
     try:
         return CatalogueSpec(**kw)
@@ -219,7 +220,8 @@ def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:
         raise InputError(scenario.source, "catalogue", dict(raw), str(exc)) from None
 
 
-def _reject_unknown(t: _Table, allowed: set[str]) -> None:
+def reject_unknown(t: _Table, allowed: set[str]) -> None:
+    """InputError for the first key of ``t`` not in ``allowed``, with a "did you mean" suggestion."""
     for key in t.data:
         if key not in allowed:
             close = difflib.get_close_matches(key, sorted(allowed), n=1)

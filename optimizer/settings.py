@@ -18,6 +18,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
+from optimizer.catalogue import reject_unknown
 from optimizer.errors import InputError
 from optimizer.problem import Objective, Rules, StepRule
 from optimizer.scenario import _MISSING, Scenario, _Table
@@ -114,16 +115,6 @@ def _grade_table(t: _Table, key: str) -> dict[float, float] | None:
     return out
 
 
-def _check_unknown(t: _Table, allowed: set[str]) -> None:
-    import difflib
-
-    for key in t.data:
-        if key not in allowed:
-            close = difflib.get_close_matches(key, sorted(allowed), n=1)
-            hint = f"; did you mean {close[0]!r}?" if close else ""
-            raise InputError(t.file, t.key(key), t.data[key], f"unknown key{hint}")
-
-
 def read_run_settings(scenario: Scenario) -> RunSettings:
     """Rules, objective, solver options and rates from the scenario (defaults where absent)."""
     res = scenario.reserved
@@ -174,7 +165,7 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
             if fr not in ("fail", "flag"):
                 raise InputError(src, "rules.fire_outside_method", fr, "'fail' or 'flag'")
             fire_rule = fr
-        _check_unknown(t, {"monotone_sections", "monotone_bars", "monotone_grade", "max_step_mm", "step_rule",
+        reject_unknown(t, {"monotone_sections", "monotone_bars", "monotone_grade", "max_step_mm", "step_rule",
                            "min_run", "max_types", "max_sections", "price_per_type", "price_per_section", "groups",
                            "pinned", "fire_outside_method"})
     objective = Objective.STEEL
@@ -188,7 +179,7 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
         tl = t.num("time_limit_s", required=False, positive=True)
         gap = t.num("gap", required=False, minimum=0, maximum=1)
         solver = SolverOptions(name, tl if tl is not None else 120.0, gap if gap is not None else 0.01)
-        _check_unknown(t, {"objective", "solver", "time_limit_s", "gap"})
+        reject_unknown(t, {"objective", "solver", "time_limit_s", "gap"})
     costs = CostFactors()
     if "costs" in res:
         t = _Table(src, "costs", dict(res["costs"]))
@@ -207,7 +198,7 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
         cur = t.str_("currency", required=False)
         if cur is not None:
             kw["currency"] = cur
-        _check_unknown(t, {"steel_per_t", "concrete_per_m3", "formwork_per_m2", "plan_area_per_m2", "currency",
+        reject_unknown(t, {"steel_per_t", "concrete_per_m3", "formwork_per_m2", "plan_area_per_m2", "currency",
                            "steel_carbon_per_kg", "concrete_carbon_per_kg"})
         costs = CostFactors(**kw)
     if objective is Objective.COST and not costs.has_cost:
