@@ -425,6 +425,34 @@ def formulate(problem: ScheduleProblem, max_types: int | None = None,
                 bld.row(f"section_link_t{t}_s{s}", [y_col[t], sec_col[s]], [1.0, -1.0], -np.inf, 0.0)
             if cap_s is not None:
                 bld.row("cap_sections", list(sec_col.values()), np.ones(len(sec_col)), -np.inf, float(cap_s))
+    # concrete grades: building-wide cap and cap on changes per stack (grade binaries per building / stack,
+    # linked cell by cell: the candidates of one grade in a cell sum to at most the grade's binary)
+    grades = np.unique(t_.fck)
+    if r.max_grades is not None:
+        g_col = {float(g): bld.col(f"grade_{g:g}", ("g", float(g))) for g in grades}
+        for c, ks in kept_of_cell.items():
+            for g in grades:
+                kg = ks[t_.fck[p.cand_type[ks]] == g]
+                if len(kg):
+                    bld.row(f"grade_link_{cell_label(c)}_{g:g}", list(x_col[kg]) + [g_col[float(g)]],
+                            [1.0] * len(kg) + [-1.0], -np.inf, 0.0)
+        bld.row("cap_grades", list(g_col.values()), np.ones(len(g_col)), -np.inf, float(r.max_grades))
+    if r.max_grade_changes is not None:
+        # with grades that never rise going up, changes = distinct grades in the stack - 1
+        for s, ch in enumerate(cells_of_stack):
+            if len(ch) == 0:
+                continue
+            gs = {float(g): bld.col(f"stack_grade_{_clean(p.stack_names[s])}_{g:g}", ("gs", s, float(g)))
+                  for g in grades}
+            for c in ch:
+                ks = kept_of_cell[int(c)]
+                for g in grades:
+                    kg = ks[t_.fck[p.cand_type[ks]] == g]
+                    if len(kg):
+                        bld.row(f"stack_grade_link_{cell_label(int(c))}_{g:g}", list(x_col[kg]) + [gs[float(g)]],
+                                [1.0] * len(kg) + [-1.0], -np.inf, 0.0)
+            bld.row(f"cap_grade_changes_{_clean(p.stack_names[s])}", list(gs.values()), np.ones(len(gs)), -np.inf,
+                    float(r.max_grade_changes + 1))
     # orientation: one per stack
     for s, ch in enumerate(cells_of_stack):
         if not p.stack_free[s] or len(ch) == 0:
@@ -900,7 +928,7 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
     r = problem.rules
     cap_t = max_types if max_types is not None else r.max_types
     coupled = (cap_t is not None or r.max_sections is not None or r.price_per_type > 0
-               or r.price_per_section > 0)
+               or r.price_per_section > 0 or r.max_grades is not None or r.max_grade_changes is not None)
     notes: list[str] = []
     if not coupled and exact_decomposition:
         sched = stack_optimum(problem)

@@ -59,6 +59,8 @@ class Rules:
     max_sections: int | None = None  # cap on distinct sections building-wide
     price_per_type: float = 0.0  # objective units per distinct type
     price_per_section: float = 0.0  # objective units per distinct section
+    max_grades: int | None = None  # cap on distinct concrete grades building-wide
+    max_grade_changes: int | None = None  # cap on grade changes going up any one stack
     groups: tuple[tuple[str, ...], ...] = ()  # stacks that take identical types level by level
     pinned: tuple[tuple[int, int], ...] = ()  # (cell index, type index) fixed by the user
 

@@ -246,7 +246,8 @@ def optimise(problem: ScheduleProblem, solver: str, time_limit_s: float, gap_rel
     t0 = time.perf_counter()
     r = problem.rules
     cap = max_types if max_types is not None else r.max_types
-    coupled = cap is not None or r.max_sections is not None or r.price_per_type > 0 or r.price_per_section > 0
+    coupled = (cap is not None or r.max_sections is not None or r.price_per_type > 0 or r.price_per_section > 0
+               or r.max_grades is not None or r.max_grade_changes is not None)
     if not coupled:
         return ip.solve(problem, solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel, max_types=max_types,
                         progress=say)
@@ -254,6 +255,11 @@ def optimise(problem: ScheduleProblem, solver: str, time_limit_s: float, gap_rel
     warm = heuristic.rationalise(problem, max_types=cap, time_limit_s=max(5.0, 0.3 * time_limit_s),
                                  per_cell=40 if big else None)
     lb = heuristic.cellwise_lower_bound(problem).value
+    if warm is not None:
+        from optimizer.schedule_check import check_schedule
+
+        if check_schedule(problem, warm):  # the greedy stage does not know every rule (e.g. grade caps)
+            warm = None
     if warm is not None:
         fig = heuristic.figures(problem, warm.cand)
         say(f"greedy rationalised schedule {fig.objective:.6g} in {time.perf_counter() - t0:.1f} s")

@@ -151,4 +151,14 @@ def check_schedule(problem: ScheduleProblem, schedule: Schedule | np.ndarray) ->
     secs = {int(T.section[t]) for t in used}
     if r.max_sections is not None and len(secs) > r.max_sections:
         out.append(f"the building uses {len(secs)} distinct sections, more than the cap of {r.max_sections}")
+    grades = {float(T.fck[t]) for t in used}
+    if r.max_grades is not None and len(grades) > r.max_grades:
+        out.append(f"the building uses {len(grades)} concrete grades, more than the cap of {r.max_grades}")
+    if r.max_grade_changes is not None:
+        for s, ch in chains.items():
+            seq = [float(T.fck[chosen_type[c]]) for c in ch if chosen_type[c] is not None]
+            changes = sum(1 for a, b in zip(seq[:-1], seq[1:], strict=True) if a != b)
+            if changes > r.max_grade_changes:
+                out.append(f"stack {p.stack_names[s]}: the grade changes {changes} times, more than the cap of "
+                           f"{r.max_grade_changes}")
     return out

@@ -139,12 +139,17 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
             if v != int(v):
                 raise InputError(src, "rules.min_run", v, "a whole number of storeys")
             rules_kw["min_run"] = int(v)
-        for key in ("max_types", "max_sections"):
+        for key in ("max_types", "max_sections", "max_grades"):
             v = t.num(key, required=False, minimum=1)
             if v is not None:
                 if v != int(v):
                     raise InputError(src, f"rules.{key}", v, "a whole number")
                 rules_kw[key] = int(v)
+        v = t.num("max_grade_changes", required=False, minimum=0)
+        if v is not None:
+            if v != int(v):
+                raise InputError(src, "rules.max_grade_changes", v, "a whole number")
+            rules_kw["max_grade_changes"] = int(v)
         for key in ("price_per_type", "price_per_section"):
             v = t.num(key, required=False, minimum=0)
             if v is not None:
@@ -166,7 +171,8 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
                 raise InputError(src, "rules.fire_outside_method", fr, "'fail' or 'flag'")
             fire_rule = fr
         reject_unknown(t, {"monotone_sections", "monotone_bars", "monotone_grade", "max_step_mm", "step_rule",
-                           "min_run", "max_types", "max_sections", "price_per_type", "price_per_section", "groups",
+                           "min_run", "max_types", "max_sections", "max_grades", "max_grade_changes", "price_per_type",
+                           "price_per_section", "groups",
                            "pinned", "fire_outside_method"})
     objective = Objective.STEEL
     solver = SolverOptions()
