@@ -6,7 +6,7 @@ STAMP_RUN := $(VENV)/.stamp-run
 STAMP_TEST := $(VENV)/.stamp-test
 STAMP_BENCH := $(VENV)/.stamp-bench
 
-.PHONY: demo test bench lint clean
+.PHONY: demo test bench bench-large lint clean
 
 $(BIN)/python:
 	$(PY) -m venv $(VENV)
@@ -35,6 +35,9 @@ bench: $(STAMP_BENCH)
 	$(BIN)/python bench/bench_resistance.py
 	$(BIN)/python bench/bench_feasibility.py
 	$(BIN)/python bench/bench_ip.py
+
+bench-large: $(STAMP_BENCH)
+	$(BIN)/python bench/bench_large_tower.py
 
 clean:
 	rm -rf $(VENV) demo_out .pytest_cache
