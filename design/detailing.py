@@ -133,8 +133,7 @@ def min_clear_spacing(
     phi, dg = _arr(phi), _arr(dg)
     _positive("phi", phi, "mm")
     _positive("dg", dg, "mm")
-    return np.maximum.reduce([params.k1_spacing * phi, dg + params.k2_spacing_mm,
-                              np.full(np.broadcast(phi, dg).shape, 20.0)])
+    return np.maximum(np.maximum(params.k1_spacing * phi, dg + params.k2_spacing_mm), 20.0)
 
 
 def link_dia_min(phi_max: ArrayLike) -> np.ndarray:

@@ -581,9 +581,7 @@ def _detailing_checks(g: dict, NEd: np.ndarray, settings: CheckSettings, params:
                                detailing.As_max(g["Ac"], True, params), ones,
                                "all bars lapped at one section: 2 As <= 0.08 Ac"))
     n_min = np.where(g["circ"], 6.0, 4.0)
-    spacing = np.maximum.reduce([params.k1_spacing * g["dia_max"],
-                                 np.full(n_pairs, settings.aggregate + params.k2_spacing_mm),
-                                 np.full(n_pairs, 20.0)])
+    spacing = detailing.min_clear_spacing(g["dia_max"], settings.aggregate, params)
     out += [
         CheckColumn("number of bars", "EN 1992-1-1, 9.5.2(4)", "bars", n_min, g["n_bars"].astype(float), ones,
                     "at least 4 bars (rectangular), 6 (circular)"),

@@ -23,6 +23,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from design.detailing import min_clear_spacing
+from design.params import EN_RECOMMENDED, NationalParameters
 from design.results import CheckResult
 
 __all__ = [
@@ -34,7 +36,6 @@ __all__ = [
     "parse_bar_notation",
     "bar_area",
     "STANDARD_BAR_DIAMETERS",
-    "min_clear_spacing",
     "check_bar_spacing",
 ]
 
@@ -382,23 +383,10 @@ class CircSection:
 Section = RectSection | CircSection
 
 
-def min_clear_spacing(dia: float, dg: float, k1: float = 1.0, k2: float = 5.0) -> float:
-    """Minimum clear distance between bars, mm.
-
-    EN 1992-1-1, 8.2(2): max(k1 phi, dg + k2, 20 mm).
-
-    Args:
-        dia: largest bar diameter, mm.
-        dg: maximum aggregate size, mm.
-        k1: factor on the bar diameter (recommended 1).
-        k2: addition to the aggregate size, mm (recommended 5).
-    """
-    return max(k1 * dia, dg + k2, 20.0)
-
-
-def check_bar_spacing(section: Section, dg: float = 20.0, k1: float = 1.0, k2: float = 5.0) -> CheckResult:
-    """Check the smallest clear gap between bars against 8.2(2)."""
-    required = min_clear_spacing(section.bars.max_dia, dg, k1, k2)
+def check_bar_spacing(section: Section, dg: float = 20.0,
+                      params: NationalParameters = EN_RECOMMENDED) -> CheckResult:
+    """Check the smallest clear gap between bars against 8.2(2) (rule in design.detailing.min_clear_spacing)."""
+    required = float(min_clear_spacing(section.bars.max_dia, dg, params))
     provided = float(np.min(section.clear_spacings()))
     return CheckResult(
         name="clear spacing of bars",

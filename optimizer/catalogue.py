@@ -289,7 +289,7 @@ def _face_counts(width: float, cover: float, link: float, dia: float, spec: Cata
     usable = width - 2 * (cover + link) - dia  # centre-to-centre length between corner bars
     if usable <= 0:
         return []
-    gap_min = max(params.k1_spacing * dia, dg + params.k2_spacing_mm, 20.0)  # 8.2(2)
+    gap_min = float(detailing.min_clear_spacing(dia, dg, params))  # 8.2(2)
     out = []
     for n in range(2, 40):
         pitch = usable / (n - 1)
@@ -398,7 +398,7 @@ def _circular_types(D, cover, link, dia, spec, dg, params, concretes, steel):
     rs = D / 2 - cover - link - dia / 2
     if rs <= 0:
         return out
-    gap_min = max(params.k1_spacing * dia, dg + params.k2_spacing_mm, 20.0)
+    gap_min = float(detailing.min_clear_spacing(dia, dg, params))
     for n in range(6, 60):  # at least 6 bars in a circular column, 9.5.2(4)
         chord = 2 * rs * math.sin(math.pi / n)
         if chord - dia < gap_min - 1e-9:

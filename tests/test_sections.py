@@ -9,6 +9,7 @@ import math
 import numpy as np
 import pytest
 
+from design.detailing import min_clear_spacing
 from design.sections import (
     CircBars,
     CircSection,
@@ -16,7 +17,6 @@ from design.sections import (
     RectSection,
     bar_area,
     check_bar_spacing,
-    min_clear_spacing,
     parse_bar_notation,
 )
 
