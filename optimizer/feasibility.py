@@ -426,12 +426,13 @@ def candidate_cost_carbon(feas: Feasibility, costs) -> tuple[np.ndarray, np.ndar
     """
     from optimizer.settings import carbon_per_m3
 
-    fck = feas.catalogue_fck[feas.cand_type] if feas.cand_cell.size else np.zeros(0)
-    carbon = feas.steel_kg * costs.steel_carbon_per_kg + feas.concrete_m3 * np.vectorize(
-        lambda f: carbon_per_m3(f, costs.concrete_carbon_per_kg))(fck) if feas.cand_cell.size else np.zeros(0)
+    # rates depend on the grade only: evaluate them once per type, then index by candidate
+    type_fck = feas.catalogue_fck
+    carbon_rate = np.array([carbon_per_m3(f, costs.concrete_carbon_per_kg) for f in type_fck])[feas.cand_type]
+    carbon = feas.steel_kg * costs.steel_carbon_per_kg + feas.concrete_m3 * carbon_rate
     if not costs.has_cost:
         return np.full(feas.cand_cell.size, np.nan), carbon
-    conc_rate = np.vectorize(costs.concrete_rate)(fck) if feas.cand_cell.size else np.zeros(0)
+    conc_rate = np.array([costs.concrete_rate(f) for f in type_fck])[feas.cand_type]
     cost = (feas.steel_kg / 1000.0 * costs.steel_per_t + feas.concrete_m3 * conc_rate
             + feas.formwork_m2 * (costs.formwork_per_m2 or 0.0) + feas.plan_m2 * (costs.plan_area_per_m2 or 0.0))
     return cost, carbon

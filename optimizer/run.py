@@ -7,6 +7,7 @@ result is plain data (:class:`RunResult`); :mod:`optimizer.outputs` writes it.
 
 from __future__ import annotations
 
+import functools
 import hashlib
 import time
 from collections.abc import Callable
@@ -76,7 +77,7 @@ class RunResult:
     def _marks(self) -> dict[int, str]:
         return {u.type_index: u.mark for u in self.types_used}
 
-    @property
+    @functools.cached_property
     def totals(self) -> dict[str, float]:
         """Headline quantities of the schedule."""
         fe, k = self.feasibility, self.chosen_cand
