@@ -31,6 +31,9 @@ def _common(p: argparse.ArgumentParser) -> None:
     p.add_argument("--out", required=True, help="output folder (replaced as a whole when the run succeeds)")
     p.add_argument("--time-limit", type=float, metavar="S", help="solver time limit, seconds (scenario default)")
     p.add_argument("--solver", choices=("highs", "cbc"), help="integer-programming solver (scenario default)")
+    p.add_argument("--formulation", choices=("auto", "paths", "compact"),
+                   help="integer program over stack paths (column generation) or one binary per cell and type "
+                        "(scenario default; auto: paths wherever valid)")
     p.add_argument("--max-types", type=int, metavar="K", help="cap on distinct column types")
     p.add_argument("--quiet", action="store_true", help="no progress display")
     p.add_argument("--log-json", metavar="FILE", help="append progress events as JSON lines to FILE")
@@ -92,7 +95,7 @@ def run(args: argparse.Namespace) -> int:
     out = Path(args.out)
     try:
         result = run_scenario(args.scenario, progress=progress, time_limit_s=args.time_limit, solver=args.solver,
-                              max_types=args.max_types)
+                              max_types=args.max_types, formulation=args.formulation)
         extras = []
         if getattr(args, "_full", True):
             from optimizer.pictures import write_pictures

@@ -10,6 +10,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+import numpy as np
 from shapely.geometry import box
 from shapely.ops import unary_union
 
@@ -34,6 +35,9 @@ class TowerSpec:
         roof_sdl_kPa, roof_imposed_kPa: roof loads (category H), kPa.
         facade_kN_m: façade line load, kN/m.
         trial_size_mm: trial column section (b, h), mm.
+        jitter_m: columns moved off the regular grid by up to this much along X and Y (seeded, reproducible),
+            so that stacks carry different loads, m; 0 keeps the grid regular.
+        seed: seed of the jitter.
     """
 
     storeys: int
@@ -51,6 +55,8 @@ class TowerSpec:
     roof_imposed_kPa: float = 0.6
     facade_kN_m: float = 4.0
     trial_size_mm: tuple[float, float] = (500.0, 500.0)
+    jitter_m: float = 0.0
+    seed: int = 0
 
     def __post_init__(self) -> None:
         if self.storeys < 1 or self.stacks < 1:
@@ -61,6 +67,9 @@ class TowerSpec:
             if not getattr(self, name) > 0:
                 msg = f"{name} must be positive, got {getattr(self, name)}"
                 raise ValueError(msg)
+        if not 0.0 <= self.jitter_m < min(self.bay_x_m, self.bay_y_m) / 4:
+            msg = f"jitter_m must be at least 0 and below a quarter of the bay, got {self.jitter_m}"
+            raise ValueError(msg)
 
 
 def _grid(stacks: int) -> tuple[int, int]:
@@ -72,7 +81,7 @@ def _grid(stacks: int) -> tuple[int, int]:
 def _outline(spec: TowerSpec) -> list[tuple[float, float]]:
     nx, ny = _grid(spec.stacks)
     full_rows, rest = divmod(spec.stacks, nx)
-    e = spec.edge_m
+    e = spec.edge_m + spec.jitter_m
     parts = []
     if full_rows:
         parts.append(box(-e, -e, (nx - 1) * spec.bay_x_m + e, (full_rows - 1) * spec.bay_y_m + e))
@@ -116,10 +125,15 @@ def generate_tower_toml(spec: TowerSpec) -> str:
         h = spec.ground_height_m if i == 0 else spec.storey_height_m
         lines += ["[[levels]]", f'name = "{name}"', f"height_m = {h:g}",
                   f"slab_depth_mm = {spec.slab_depth_mm:g}", ""]
+    rng = np.random.default_rng(spec.seed)
+    shift = rng.uniform(-spec.jitter_m, spec.jitter_m, size=(spec.stacks, 2)) if spec.jitter_m > 0 else \
+        np.zeros((spec.stacks, 2))
     for k in range(spec.stacks):
         row, col = divmod(k, nx)
-        lines += ["[[stacks]]", f'id = "S{k + 1:03d}"', f"x_m = {col * spec.bay_x_m:g}",
-                  f"y_m = {row * spec.bay_y_m:g}", f'from_level = "{names[0]}"',
+        x = round(col * spec.bay_x_m + shift[k, 0], 3)
+        y = round(row * spec.bay_y_m + shift[k, 1], 3)
+        lines += ["[[stacks]]", f'id = "S{k + 1:03d}"', f"x_m = {x:g}",
+                  f"y_m = {y:g}", f'from_level = "{names[0]}"',
                   f'to_level = "{names[-1]}"', 'stands_on = "foundation"', ""]
     outline = _fmt_points(_outline(spec))
     floor_levels = [(names[0], names[-2], spec.sdl_kPa, spec.imposed_kPa, "B")] if n > 1 else []

@@ -66,6 +66,7 @@ __all__ = [
 
 SolverName = Literal["highs", "cbc"]
 Backend = Literal["auto", "pulp", "highspy"]
+Method = Literal["auto", "paths", "compact"]
 TypePool = Literal["all", "paths"]
 _EPS = 1e-6
 
@@ -668,6 +669,38 @@ def _pulp_from(form: Formulation, problem: ScheduleProblem) -> tuple[pulp.LpProb
     return prob, ModelVariables(cols, x, y, form)
 
 
+_HIGHS_GREETED = False
+
+
+def new_highs():  # noqa: ANN201 - highspy is typed loosely
+    """A silent ``highspy.Highs`` object.
+
+    HiGHS prints a banner on stdout when the first object of a process is made, before any option can be set;
+    that first construction happens here with stdout (the file descriptor) sent to /dev/null.
+    """
+    import os
+    import sys
+
+    import highspy
+
+    global _HIGHS_GREETED  # noqa: PLW0603 - once per process
+    if not _HIGHS_GREETED:
+        sys.stdout.flush()
+        saved = os.dup(1)
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        try:
+            os.dup2(devnull, 1)
+            highspy.Highs()
+        finally:
+            os.dup2(saved, 1)
+            os.close(saved)
+            os.close(devnull)
+        _HIGHS_GREETED = True
+    h = highspy.Highs()
+    h.setOptionValue("output_flag", False)
+    return h
+
+
 def build_highs(form: Formulation, threads: int | None = None):  # noqa: ANN201 - highspy is typed loosely
     """The same formulation passed to highspy in bulk (columns, then rows in compressed sparse form).
 
@@ -680,8 +713,7 @@ def build_highs(form: Formulation, threads: int | None = None):  # noqa: ANN201 
     """
     import highspy
 
-    h = highspy.Highs()
-    h.setOptionValue("output_flag", False)
+    h = new_highs()
     if threads is not None:
         h.setOptionValue("threads", threads)
     inf = highspy.kHighsInf
@@ -827,9 +859,10 @@ def _solve_highspy(form: Formulation, start: np.ndarray | None, time_limit_s: fl
     info = h.getInfo()
     has = info.primal_solution_status == 2  # kSolutionStatusFeasible
     infeasible = ms == highspy.HighsModelStatus.kInfeasible
-    obj = float(info.objective_function_value) if has else np.inf
-    bound = float(info.mip_dual_bound)
     xval = np.array(h.getSolution().col_value) if has else None
+    # the objective of the returned columns (HiGHS's reported value was seen to differ after a start was set)
+    obj = float(form.col_cost @ xval) + form.offset if xval is not None else np.inf
+    bound = min(float(info.mip_dual_bound), obj)
     stopped = ms in (highspy.HighsModelStatus.kTimeLimit, highspy.HighsModelStatus.kInterrupt)
     gap = abs(obj - bound) / max(abs(obj), 1e-9) if has else np.inf
     return _Outcome(_status_from(has, infeasible, gap, gap_rel, stopped), xval, obj, bound, secs,
@@ -844,6 +877,7 @@ def _solve_pulp(problem: ScheduleProblem, form: Formulation, start: np.ndarray |
             var.setInitialValue(float(v))
     t0 = time.perf_counter()
     if solver == "highs":
+        new_highs()  # the banner of the first HiGHS object goes to /dev/null
         cmd = _HiGHSWarm(msg=False, timeLimit=time_limit_s, gapRel=gap_rel, threads=threads)
         prob.solve(cmd)
         secs = time.perf_counter() - t0
@@ -900,7 +934,7 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
           gap_rel: float = 0.01, max_types: int | None = None, warm_start: Schedule | None = None,
           progress: Callable[[str], None] | None = None, backend: Backend = "auto", reduce: bool = True,
           threads: int | None = None, exact_decomposition: bool = True,
-          type_pool: TypePool = "all") -> Schedule:
+          type_pool: TypePool = "all", method: Method = "auto") -> Schedule:
     """Solve the scheduling problem to a proven gap (or the time limit).
 
     Args:
@@ -919,6 +953,9 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
         type_pool: "all" (every type: the solver's bound is a bound of the problem), or "paths" (decomposition:
             only the types of the stacks' own cheapest paths, of the warm start and of the baseline; the reported
             bound is then the per-stack bound of the full problem, not the solver's).
+        method: "paths" (column generation over stack paths, :mod:`optimizer.paths`; the time limit is then
+            the whole solve), "compact" (this module's model, one binary per candidate) or "auto" (paths
+            whenever something couples the stacks and the path formulation is valid, else compact).
 
     Returns:
         The schedule with status, objective (recomputed from the problem), best bound and proven gap.
@@ -938,6 +975,19 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
             return Schedule(cand=sched.cand, status=Status.OPTIMAL.value, objective=fig.objective,
                             bound=fig.objective, gap=0.0, solver="stack shortest paths (exact: no coupling)",
                             seconds=time.perf_counter() - t_all, notes=_figure_notes(fig))
+    if method != "compact":
+        from optimizer import paths
+
+        why = paths.applicable(problem)
+        if why is None:
+            start = np.asarray(warm_start.cand) if warm_start is not None else None
+            if start is None and (cap_t is not None or r.max_sections is not None or r.max_grades is not None):
+                start = _capped_start(problem, cap_t, time_limit_s)
+            return paths.solve_paths(problem, solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel,
+                                     max_types=max_types, warm_start=start, progress=say, threads=threads)
+        if method == "paths":
+            raise ValueError(f"the path formulation does not apply: {why}")
+        notes.append(f"compact formulation: {why}")
     incumbent = None
     if warm_start is not None:
         incumbent = np.asarray(warm_start.cand)
@@ -1020,6 +1070,14 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
     status = _status_from(True, False, gap, gap_rel, out.status is Status.TIME_LIMIT)
     return Schedule(cand=cand, status=status.value, objective=fig.objective, bound=bound, gap=gap, solver=label,
                     seconds=time.perf_counter() - t_all, notes=tuple(notes) + _figure_notes(fig))
+
+
+def _capped_start(problem: ScheduleProblem, cap_t: int | None, time_limit_s: float) -> np.ndarray | None:
+    """A schedule within the caps from the greedy type reduction (on the lightest candidates when there are many)."""
+    big = len(problem.cand_cell) > 200 * max(1, problem.n_cells) or len(problem.cand_cell) > 1_000_000
+    heur = rationalise(problem, max_types=cap_t, time_limit_s=max(5.0, 0.25 * time_limit_s),
+                       per_cell=40 if big else None)
+    return heur.cand if heur is not None else None
 
 
 def _figure_notes(fig) -> tuple[str, ...]:  # noqa: ANN001

@@ -107,7 +107,8 @@ def _file_hash(path: str) -> str:
 
 
 def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit_s: float | None = None,
-                 solver: str | None = None, max_types: int | None = None, label: str = "") -> RunResult:
+                 solver: str | None = None, max_types: int | None = None, label: str = "",
+                 formulation: str | None = None) -> RunResult:
     """Run the main job on the scenario at ``path`` (or on a Scenario object, e.g. a variant).
 
     Raises:
@@ -151,7 +152,8 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
     problem = to_problem(fe, scenario, settings)
     opts = settings.solver
     schedule = optimise(problem, solver or opts.solver, time_limit_s or opts.time_limit_s, opts.gap_rel, max_types,
-                        progress=lambda msg: say(f"integer program: {msg}", 0, 0))
+                        progress=lambda msg: say(f"integer program: {msg}", 0, 0),
+                        formulation=formulation or opts.formulation)
     timings["optimise"] = time.perf_counter() - t
     if schedule.cand is None or len(schedule.cand) == 0 or np.any(np.asarray(schedule.cand) < 0):
         why = diagnose.diagnose(problem)
@@ -227,11 +229,17 @@ def _solve_child(conn, problem, solver, time_limit_s, gap_rel, max_types, warm):
 
 
 def optimise(problem: ScheduleProblem, solver: str, time_limit_s: float, gap_rel: float, max_types: int | None,
-             progress: Callable[[str], None] | None = None) -> Schedule:
+             progress: Callable[[str], None] | None = None, formulation: str = "auto") -> Schedule:
     """The schedule within a hard time limit.
 
     Without a cap or a price on types the stacks are independent and the exact
-    per-stack shortest paths are returned. Otherwise a greedy rationalised
+    per-stack shortest paths are returned. Otherwise, where it is valid (every
+    monotone rule on, no cap on grade changes per stack) and not declined by
+    ``formulation="compact"``, column generation over stack paths
+    (:mod:`optimizer.paths`) finds the schedule and its bound within the limit;
+    under a cap it starts from the greedy rationalised schedule.
+
+    For the compact formulation, a greedy rationalised
     schedule is found first (a feasible incumbent within seconds), then the
     integer program runs in a child process, warm-started from it, and is
     stopped at the time limit whatever phase the solver is in (some solvers
@@ -252,6 +260,22 @@ def optimise(problem: ScheduleProblem, solver: str, time_limit_s: float, gap_rel
     if not coupled:
         return ip.solve(problem, solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel, max_types=max_types,
                         progress=say)
+    capped = cap is not None or r.max_sections is not None or r.max_grades is not None
+    if formulation != "compact":
+        from optimizer import paths
+
+        why = paths.applicable(problem)
+        if why is None:
+            start = None
+            if capped:
+                start = ip._capped_start(problem, cap, time_limit_s)
+                say(f"greedy schedule within the caps in {time.perf_counter() - t0:.1f} s")
+            left = max(1.0, time_limit_s - (time.perf_counter() - t0))
+            return paths.solve_paths(problem, solver=solver, time_limit_s=left, gap_rel=gap_rel, max_types=max_types,
+                                     warm_start=start, progress=say)
+        if formulation == "paths":
+            raise ValueError(f"the path formulation does not apply: {why}")
+        say(f"compact formulation: {why}")
     big = len(problem.cand_cell) > 200 * max(1, problem.n_cells)
     warm = heuristic.rationalise(problem, max_types=cap, time_limit_s=max(5.0, 0.3 * time_limit_s),
                                  per_cell=40 if big else None)

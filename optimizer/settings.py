@@ -81,6 +81,7 @@ class SolverOptions:
     solver: str = "highs"
     time_limit_s: float = 120.0
     gap_rel: float = 0.01
+    formulation: str = "auto"  # "auto" (paths where valid), "paths" or "compact"; see optimizer.ip.solve
 
 
 @dataclass(frozen=True)
@@ -184,8 +185,11 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
             raise InputError(src, "optimizer.solver", name, "'highs' or 'cbc'")
         tl = t.num("time_limit_s", required=False, positive=True)
         gap = t.num("gap", required=False, minimum=0, maximum=1)
-        solver = SolverOptions(name, tl if tl is not None else 120.0, gap if gap is not None else 0.01)
-        reject_unknown(t, {"objective", "solver", "time_limit_s", "gap"})
+        form = t.str_("formulation", required=False, default="auto")
+        if form not in ("auto", "paths", "compact"):
+            raise InputError(src, "optimizer.formulation", form, "'auto', 'paths' or 'compact'")
+        solver = SolverOptions(name, tl if tl is not None else 120.0, gap if gap is not None else 0.01, form)
+        reject_unknown(t, {"objective", "solver", "time_limit_s", "gap", "formulation"})
     costs = CostFactors()
     if "costs" in res:
         t = _Table(src, "costs", dict(res["costs"]))
