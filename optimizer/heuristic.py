@@ -687,52 +687,105 @@ def cellwise_lower_bound(problem: ScheduleProblem) -> LowerBound:
     return LowerBound(value=total, cand=cand)
 
 
+def _level_rank(problem: ScheduleProblem, chains: list[np.ndarray]) -> dict[str, int]:
+    """Rank of every level name from the bottom of the building (levels ordered by the stacks' own order)."""
+    g = nx.DiGraph()
+    for ch in chains:
+        names = [problem.cell_names[int(c)][1] for c in ch]
+        g.add_nodes_from(names)
+        g.add_edges_from(zip(names[:-1], names[1:], strict=False))
+    order = list(nx.topological_sort(g)) if nx.is_directed_acyclic_graph(g) else sorted(g.nodes)
+    return {name: i for i, name in enumerate(order)}
+
+
 def baseline(problem: ScheduleProblem, band: int = 4, n_groups: int = 3) -> Schedule | None:
     """The rule-of-thumb schedule: stacks grouped by load, one type per group per band of storeys.
 
     Stacks are ranked by the demand at their foot (the weight of the lightest
     candidate of the bottom cell) and split into ``n_groups`` groups of nearly
-    equal size. Bands of ``band`` storeys are counted from the bottom of each
-    stack. Going up, each group and band takes the lightest type (orientation 0)
-    that is a candidate in every cell of the band (so it passes the band's worst
-    cell) and keeps the continuity rules with the type of the band below. Caps,
-    prices and groups of the rules are not considered.
+    equal size. Storeys are banded by level from the bottom of the building, up
+    to ``band`` storeys a band; a band ends early where no single type suits all
+    its cells (e.g. at a change of concrete grade), as a designer would split it.
+    Each group and band takes one type (orientation 0) that is a candidate in
+    every cell of the band, so it passes the band's worst cell; going up, the
+    bands keep the continuity rules, and a section changes only after a band of
+    at least the minimum run. Among such band schedules the lightest is taken
+    (a shortest path over the bands: the best a designer could do with bands,
+    not a greedy pick that may get stuck). Caps, prices and groups of the rules
+    are not considered.
 
     Returns:
-        The schedule (status "baseline"), or None when the rule of thumb gets stuck.
+        The schedule (status "baseline"), or None when no band schedule keeps the rules.
     """
     t0 = time.perf_counter()
     prep = _Prepared(problem)
     chains = prep.chains
+    rank = _level_rank(problem, chains)
     foot = np.array([
         min((prep.weight[k] for k in prep.cell_cands(int(ch[0]), 0)), default=np.inf) for ch in chains])
     order = np.argsort(foot, kind="stable")
     groups = [g for g in np.array_split(order, max(1, min(n_groups, len(chains)))) if len(g)]
     cand = np.full(problem.n_cells, -1, dtype=int)
     n_t = len(problem.types)
+    m_run = _run_states(problem)
+    sec = problem.types.section
     for g in groups:
-        height = max(len(chains[s]) for s in g)
-        prev_type: int | None = None
-        for lo in range(0, height, band):
-            cells = [int(chains[s][i]) for s in g for i in range(lo, min(lo + band, len(chains[s])))]
+        at_rank: dict[int, list[int]] = {}
+        for s in g:
+            for c in chains[s]:
+                at_rank.setdefault(rank[problem.cell_names[int(c)][1]], []).append(int(c))
+        ranks = sorted(at_rank)
+        # bands: grow up to `band` storeys while some type suits every cell
+        bands: list[tuple[list[int], np.ndarray, np.ndarray]] = []  # cells, feasible types, total weight per type
+        i = 0
+        while i < len(ranks):
             feasible = np.ones(n_t, dtype=bool)
             total = np.zeros(n_t)
-            for c in cells:
-                ks = prep.cell_cands(c, 0)
-                here = np.zeros(n_t, dtype=bool)
-                here[problem.cand_type[ks]] = True
-                feasible &= here
-                total[problem.cand_type[ks]] += prep.weight[ks]
-            if prev_type is not None:
-                ok, _ = transition(problem, np.array([prev_type]), np.arange(n_t))
-                feasible &= ok[0]
-            if not feasible.any():
+            cells: list[int] = []
+            size = 0
+            while i + size < len(ranks) and size < band:
+                trial = feasible.copy()
+                add = np.zeros(n_t)
+                for c in at_rank[ranks[i + size]]:
+                    ks = prep.cell_cands(c, 0)
+                    here = np.zeros(n_t, dtype=bool)
+                    here[problem.cand_type[ks]] = True
+                    trial &= here
+                    add[problem.cand_type[ks]] += prep.weight[ks]
+                if not trial.any():
+                    break
+                feasible, total = trial, total + add
+                cells += at_rank[ranks[i + size]]
+                size += 1
+            if size == 0:
                 return None
-            t = int(np.flatnonzero(feasible)[np.argmin(total[feasible])])
+            bands.append((cells, feasible, total))
+            i += size
+        # lightest band schedule: shortest path over the bands
+        types = [np.flatnonzero(f) for _, f, _ in bands]
+        cost = bands[0][2][types[0]]
+        back: list[np.ndarray] = []
+        for b in range(1, len(bands)):
+            ok, _ = transition(problem, types[b - 1], types[b])
+            short = len({rank[problem.cell_names[c][1]] for c in bands[b - 1][0]}) < m_run
+            if short:
+                ok &= sec[types[b - 1]][:, None] == sec[types[b]][None, :]
+            mat = np.where(ok, cost[:, None], np.inf)
+            j = np.argmin(mat, axis=0)
+            cost = mat[j, np.arange(len(types[b]))] + bands[b][2][types[b]]
+            back.append(j)
+        if not np.isfinite(cost).any():
+            return None
+        j = int(np.argmin(cost))
+        chosen = [0] * len(bands)
+        for b in range(len(bands) - 1, -1, -1):
+            chosen[b] = int(types[b][j])
+            if b > 0:
+                j = int(back[b - 1][j])
+        for (cells, _, _), t in zip(bands, chosen, strict=True):
             for c in cells:
                 ks = prep.cell_cands(c, 0)
                 cand[c] = int(ks[problem.cand_type[ks] == t][0])
-            prev_type = t
     fig = figures(problem, cand)
     return Schedule(cand=cand, status="baseline", objective=fig.objective, bound=-np.inf, gap=np.inf,
                     solver="rule of thumb", seconds=time.perf_counter() - t0)

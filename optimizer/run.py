@@ -221,6 +221,7 @@ def _solve_child(conn, problem, solver, time_limit_s, gap_rel, max_types, warm):
 
     try:
         conn.send(ip.solve(problem, solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel, max_types=max_types,
+                           method="compact",
                            warm_start=warm))
     except Exception as exc:  # noqa: BLE001 - reported to the parent as a note
         conn.send(exc)
