@@ -991,12 +991,15 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
     incumbent = None
     if warm_start is not None:
         incumbent = np.asarray(warm_start.cand)
+        if _breaks_rules(problem, incumbent):
+            incumbent = None
+            notes.append("warm start ignored: it breaks a rule of this problem")
     else:
         t0 = time.perf_counter()
         big = len(problem.cand_cell) > 200 * max(1, problem.n_cells) or len(problem.cand_cell) > 1_000_000
         heur = rationalise(problem, max_types=cap_t, time_limit_s=max(5.0, 0.25 * time_limit_s),
                            per_cell=40 if big else None)
-        if heur is not None:
+        if heur is not None and not _breaks_rules(problem, heur.cand):
             incumbent = heur.cand
             say(f"greedy warm start {heur.objective:.6g} in {time.perf_counter() - t0:.1f} s")
             notes.append(f"warm start (greedy type reduction): {heur.objective:.6g}")
@@ -1072,12 +1075,22 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
                     seconds=time.perf_counter() - t_all, notes=tuple(notes) + _figure_notes(fig))
 
 
+def _breaks_rules(problem: ScheduleProblem, cand: np.ndarray) -> bool:
+    """Whether a schedule breaks a rule (the greedy stage does not know every rule, e.g. grade caps).
+
+    Such a schedule must not serve as an incumbent: its value would prune every schedule that keeps the rules.
+    """
+    from optimizer.schedule_check import check_schedule
+
+    return bool(check_schedule(problem, np.asarray(cand)))
+
+
 def _capped_start(problem: ScheduleProblem, cap_t: int | None, time_limit_s: float) -> np.ndarray | None:
     """A schedule within the caps from the greedy type reduction (on the lightest candidates when there are many)."""
     big = len(problem.cand_cell) > 200 * max(1, problem.n_cells) or len(problem.cand_cell) > 1_000_000
     heur = rationalise(problem, max_types=cap_t, time_limit_s=max(5.0, 0.25 * time_limit_s),
                        per_cell=40 if big else None)
-    return heur.cand if heur is not None else None
+    return heur.cand if heur is not None and not _breaks_rules(problem, heur.cand) else None
 
 
 def _figure_notes(fig) -> tuple[str, ...]:  # noqa: ANN001

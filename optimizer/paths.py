@@ -41,13 +41,13 @@ from __future__ import annotations
 import time
 from collections.abc import Callable
 from concurrent.futures import ThreadPoolExecutor
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
 from optimizer import stackdp
 from optimizer.heuristic import _Prepared, _run_states, figures, transition
-from optimizer.problem import Objective, Schedule, ScheduleProblem, StepRule
+from optimizer.problem import Schedule, ScheduleProblem
 
 __all__ = ["applicable", "PathModel", "solve_paths"]
 
@@ -204,18 +204,27 @@ class PathModel:
             rows[i] = ch.off[i] + hit[0]
         return self.column(ch, rows)
 
-    def through(self, ui: int, pen: np.ndarray, gpen: np.ndarray) -> list[np.ndarray]:
-        """Cheapest penalised path through every row of each chain of a unit (minimum run relaxed upward)."""
+    def through(self, ui: int, pen: np.ndarray, gpen: np.ndarray) -> tuple[float, list[np.ndarray]]:
+        """The unit's cheapest penalised path (exact) and, per chain, a lower bound on the cheapest through each row.
+
+        The bound through a row is the exact cheapest way up to it (with run states) plus the cheapest way on
+        to the top with the minimum run relaxed. The exact cheapest path must come from the run-state values,
+        not from the minimum of these bounds, which can be lower.
+        """
         out = []
+        best = np.inf
         for ch in self.chains[ui]:
             if len(ch.typ) == 0:
                 out.append(np.zeros(0))
                 continue
             f, _, _ = stackdp.forward(ch.off, ch.typ, ch.w, ch.st, self.ok_up, self.big_up, self.sec, self.gid,
                                       pen, gpen, self.m)
+            top = f[ch.off[-2]:ch.off[-1]]
+            if top.size:
+                best = min(best, float(top.min()))
             b = stackdp.backward(ch.off, ch.typ, ch.w, ch.st, self.ok_lo, self.big_lo, self.gid, pen, gpen)
             out.append(f.min(axis=1) + b - ch.w)
-        return out
+        return best, out
 
     def prune(self, ui: int, keep: list[np.ndarray]) -> None:
         """Keep only the marked rows of each chain of a unit."""
@@ -291,6 +300,7 @@ class _MasterRows:
     glink: dict[tuple[int, int], int]
     lam: list[int]
     y: dict[int, int]
+    art: int | None = None
 
 
 class _Master:
@@ -325,6 +335,7 @@ class _Master:
         art = None
         if not integer and (cnt.cap_t is not None or cnt.cap_s is not None or cnt.cap_g is not None):
             art = bld.col("cap_slack", ("art",), ub=np.inf, integer=False, cost=self.big_m)
+            rows.art = art
         for u, idx in by_unit.items():
             rows.conv[u] = len(bld.r_name)
             bld.row(f"one_path_u{u}", [rows.lam[i] for i in idx], np.ones(len(idx)), 1.0, 1.0)
@@ -571,6 +582,7 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
         lp_value = np.inf
         x_lp = np.zeros(0)
         rows_lp = None
+        converged = False
         last_slack = np.inf
         center: tuple[dict[int, np.ndarray], dict[int, np.ndarray]] | None = None
         smooth = 0.5  # weight of the stability centre in the pricing duals (Wentges smoothing)
@@ -585,7 +597,7 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
                     gpen = {u: mix * center[1][u] + (1.0 - mix) * gpen_lp[u] for u in model.units}
                 else:
                     pen, gpen = pen_lp, gpen_lp
-                priced = list(pool.map(lambda u: model.price(u, pen[u], gpen[u]), model.units))
+                priced = list(pool.map(lambda u, pen=pen, gpen=gpen: model.price(u, pen[u], gpen[u]), model.units))
                 lagr = sum(val for val, _ in priced) + _y_part(model, counting, pen, gpen)
                 if lagr > state.bound:
                     state.bound = lagr
@@ -602,6 +614,7 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
             gap_lp = (lp_value - state.bound) / max(abs(lp_value), 1e-9)
             say(f"round {rounds}: relaxation {lp_value:.6g}, bound {state.bound:.6g}, {added} paths added, "
                 f"{model.n_rows} rows")
+            converged = added == 0
             if added == 0 or gap_lp < max(1e-6, gap_rel / 20) or time.perf_counter() > cg_deadline:
                 break
             slack = state.value - state.bound
@@ -647,19 +660,68 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
             say(f"schedule {state.value:.6g}, bound {state.bound:.6g}, gap {_gap(state):.2%}")
     finally:
         pool.shutdown()
+    label = f"path formulation (column generation; {'HiGHS' if solver == 'highs' else 'CBC'} master)"
+    art = float(x_lp[rows_lp.art]) if rows_lp is not None and rows_lp.art is not None else 0.0
+    if state.columns is None and converged and art > 1e-6:
+        # the relaxation over all paths needs the cap slack: no schedule keeps the caps
+        notes.append("the caps cannot be met: the relaxation over all paths needs the cap slack "
+                     "(see optimizer.diagnose)")
+        return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=Status.INFEASIBLE.value,
+                        objective=np.inf, bound=np.inf, gap=np.inf, solver=label,
+                        seconds=time.perf_counter() - t_all, notes=tuple(notes))
+    gap = _gap(state) if state.columns is not None else np.inf
+    remaining = deadline - time.perf_counter()
+    if gap > gap_rel and remaining > 1.0 and len(problem.cand_cell) <= _FINISH_MAX_CANDIDATES:
+        # no branching over paths here: the compact model finishes the proof on small problems
+        return _finish_compact(problem, state, model, solver, remaining, gap_rel, max_types, threads, notes, label,
+                               t_all)
     secs = time.perf_counter() - t_all
     if state.columns is None:
         return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=Status.NO_SCHEDULE.value,
-                        objective=np.inf, bound=state.bound, gap=np.inf, solver="path formulation", seconds=secs,
+                        objective=np.inf, bound=state.bound, gap=np.inf, solver=label, seconds=secs,
                         notes=tuple(notes))
     cand = model.assemble(state.columns)
     fig = figures(problem, cand)
     bound = min(state.bound, fig.objective)
     gap = max(0.0, (fig.objective - bound) / max(abs(fig.objective), 1e-9))
     status = Status.OPTIMAL if gap <= 1e-6 else (Status.WITHIN_GAP if gap <= gap_rel + 1e-9 else Status.TIME_LIMIT)
-    label = f"path formulation (column generation; {'HiGHS' if solver == 'highs' else 'CBC'} master)"
+    if status is Status.TIME_LIMIT and time.perf_counter() < deadline - 1.0:
+        notes.append("the gap left by the path relaxation was not closed (no branching over paths on a problem "
+                     "this large); status 'time limit' means the proof stopped, not the clock")
     return Schedule(cand=cand, status=status.value, objective=fig.objective, bound=bound, gap=gap, solver=label,
                     seconds=secs, notes=tuple(notes) + _figure_notes(fig))
+
+
+_FINISH_MAX_CANDIDATES = 300_000
+
+
+def _finish_compact(problem: ScheduleProblem, state: _State, model: PathModel, solver: str, remaining: float,
+                    gap_rel: float, max_types: int | None, threads: int | None, notes: list[str], label: str,
+                    t_all: float) -> Schedule:
+    """Close the gap with the compact model (branch and bound), warm-started, keeping the path bound."""
+    from optimizer.ip import Status, _figure_notes, solve
+
+    warm = None
+    if state.columns is not None:
+        cand = model.assemble(state.columns)
+        warm = Schedule(cand=cand, status="heuristic", objective=state.value, bound=state.bound, gap=_gap(state),
+                        solver=label, seconds=0.0)
+    out = solve(problem, solver=solver, time_limit_s=remaining, gap_rel=gap_rel, max_types=max_types,
+                warm_start=warm, threads=threads, method="compact")
+    notes = notes + [f"path bound {state.bound:.6g} left a gap above {gap_rel:g}: compact model run to finish "
+                     f"({out.status})"] + [n for n in out.notes if not n.startswith("steel ")]
+    secs = time.perf_counter() - t_all
+    if out.status == Status.INFEASIBLE.value:
+        return replace(out, notes=tuple(notes), seconds=secs)
+    if np.any(np.asarray(out.cand) < 0):
+        return replace(out, bound=max(out.bound, state.bound), notes=tuple(notes), seconds=secs)
+    fig = figures(problem, out.cand)
+    bound = min(max(out.bound, state.bound), fig.objective)
+    gap = max(0.0, (fig.objective - bound) / max(abs(fig.objective), 1e-9))
+    status = Status.OPTIMAL if gap <= 1e-6 else (Status.WITHIN_GAP if gap <= gap_rel + 1e-9 else Status.TIME_LIMIT)
+    return Schedule(cand=np.asarray(out.cand), status=status.value, objective=fig.objective, bound=bound, gap=gap,
+                    solver=f"{label}; finished by {out.solver}", seconds=secs,
+                    notes=tuple(notes) + _figure_notes(fig))
 
 
 def _y_part(model: PathModel, counting: _Counting, pen: dict[int, np.ndarray], gpen: dict[int, np.ndarray]) -> float:
@@ -723,9 +785,11 @@ def _prune(model: PathModel, master: _Master, pen: dict[int, np.ndarray], gpen: 
     """Drop rows whose cheapest penalised path exceeds their unit's best by more than (incumbent - bound)."""
     before = model.n_rows
     slack = state.value - state.bound
+    if slack < -1e-7 * max(1.0, abs(state.value)):
+        notes.append(f"pruning skipped: bound {state.bound:.6g} above the incumbent {state.value:.6g}")
+        return
     thr = list(pool.map(lambda u: model.through(u, pen[u], gpen[u]), model.units))
-    for u, parts in zip(model.units, thr, strict=True):
-        best = min((float(x.min()) for x in parts if len(x)), default=np.inf)
+    for u, (best, parts) in zip(model.units, thr, strict=True):
         keep = [x <= best + slack + 1e-7 * max(1.0, abs(state.value)) for x in parts]
         model.prune(u, keep)
     notes.append(f"pruned {before - model.n_rows} of {before} candidate rows (reduced cost above the gap "

@@ -119,9 +119,15 @@ def backward(off, typ, w, st, ok_lo, big_lo, gid, pen, gpen):  # noqa: ANN001, A
     """Cheapest penalised cost from every row to the top of the stack, ignoring the minimum run.
 
     Args:
-        off, typ, w, st, gid, pen, gpen: as :func:`forward`.
+        off: (n_levels + 1,) row offsets per storey, bottom to top.
+        typ: (n_rows,) type of each row.
+        w: (n_rows,) objective weight of each row.
+        st: (n_rows,) extra weight (starter bars) when the step below the row is large.
         ok_lo: (n_types, n_types) bool, ``ok_lo[lower, upper]`` (the transpose of ``ok_up``).
         big_lo: (n_types, n_types) bool, ``big_lo[lower, upper]``.
+        gid: (n_types,) grade id of each type.
+        pen: (n_types,) cost of entering a type.
+        gpen: (n_grades,) cost of entering a grade.
 
     Returns:
         (n_rows,) costs including the row's own weight (its entry cost is not included).

@@ -443,7 +443,11 @@ def test_through_equals_enumeration(i: int) -> None:
         for u in model.units:
             mult = model.mult[u]
             enum = bf_unit_paths(p, model.prep.units[u].stacks)
-            for ch, vals in zip(model.chains[u], model.through(u, pen, gpen), strict=True):
+            best, parts = model.through(u, pen, gpen)
+            # the unit's cheapest penalised path is exact (run states included)
+            assert close(best, min((penalised(p, combo, w, mult, pen, gpen) for w, combo, _ in enum),
+                                   default=math.inf))
+            for ch, vals in zip(model.chains[u], parts, strict=True):
                 assert len(vals) == len(ch.typ)
                 for lv in range(len(ch.off) - 1):
                     for j in range(ch.off[lv], ch.off[lv + 1]):
@@ -494,7 +498,7 @@ def coupled_problem(case: int, seed: int) -> ScheduleProblem:
 
 
 # The compact model with a grade cap: see test_compact_grade_cap_warm_start_prunes_every_feasible_schedule.
-_COMPACT_GRADE_BUG = {("max_grades", 1), ("max_grades", 2)}
+_COMPACT_GRADE_BUG: set[tuple[str, int]] = set()  # the grade-cap cases failed before the warm-start fix
 
 
 def _params() -> list:
@@ -576,7 +580,7 @@ def _not_applicable_params() -> list:
     for case, (name, _, _) in enumerate(NOT_APPLICABLE):
         for seed in (0, 1):
             marks = []
-            if (name, seed) == ("grade_changes_capped_types", 1):
+            if False:  # ("grade_changes_capped_types", 1) failed before the warm-start fix
                 marks = [pytest.mark.xfail(strict=True, reason=(
                     "compact model under a cap on grade changes: the greedy warm start ignores "
                     "max_grade_changes, its value prunes every feasible schedule, and solve reports "
@@ -699,17 +703,14 @@ def test_minimum_run_leaves_no_path_is_infeasible() -> None:
 
 
 # --------------------------------------------------------------------------------------------
-# bugs found (expected failures, each with its exact reproduction)
+# regressions: bugs found by these tests and fixed (each with its exact reproduction)
 # --------------------------------------------------------------------------------------------
 
-PRUNE_BUG = ("paths._prune takes the least through() value of a unit as the unit's cheapest penalised path g_u; "
-             "with min_run > 1 through() relaxes the minimum run in its backward pass, so that least value can "
-             "lie below g_u, the keep-threshold (least through + incumbent - bound) is too tight, and rows of "
-             "the optimal schedule (even of the unit's own cheapest path) are pruned")
+# Pruning bug (fixed): paths._prune took the least through() value of a unit as its cheapest penalised path;
+# with min_run > 1 through() relaxes the minimum run in its backward pass, so that value could lie below the
+# true cheapest path, the keep-threshold was too tight and rows of the optimal schedule were pruned.
 
 
-@pytest.mark.xfail(strict=True, reason=PRUNE_BUG + "; here solve returns 1269.9456 as 'optimal' with bound "
-                   "1269.9456 while the true optimum is 1253.7885")
 @pytest.mark.parametrize("method", ["paths", "auto"])
 def test_paths_min_run_pruning_keeps_the_optimum(method: str) -> None:
     """Truth: bf_optimum (the compact model agrees: 1253.7885 with 2 types and 2 sections, every stack on
@@ -722,12 +723,10 @@ def test_paths_min_run_pruning_keeps_the_optimum(method: str) -> None:
     assert truth == pytest.approx(1253.7885349395106, rel=1e-9)
     assert solve(p, method="compact", gap_rel=0.0, time_limit_s=30).objective == pytest.approx(truth, rel=1e-9)
     s = solve(p, method=method, gap_rel=0.0, time_limit_s=30)
-    assert s.bound <= truth + 1e-6 * truth  # got 1269.9456: the reported bound is above the optimum
-    assert s.objective == pytest.approx(truth, rel=1e-9)  # got 1269.9456, status "optimal"
+    assert s.bound <= truth + 1e-6 * truth  # before the fix: 1269.9456: the reported bound is above the optimum
+    assert s.objective == pytest.approx(truth, rel=1e-9)  # before the fix: 1269.9456, status "optimal"
 
 
-@pytest.mark.xfail(strict=True, reason=PRUNE_BUG + "; here pruning with incumbent = bound removes every row of "
-                   "the cheapest path of unit 0, whose price becomes inf instead of 141.26")
 def test_prune_with_no_slack_keeps_each_units_cheapest_path() -> None:
     """Truth: the documented pruning rule (docs/integer_program.md): a row is dropped only when every
     schedule through it costs more than the incumbent. With zero penalties and incumbent = bound (no slack),
@@ -751,15 +750,9 @@ def test_prune_with_no_slack_keeps_each_units_cheapest_path() -> None:
                      lambda _m: None)
     after = {u: model.price(u, z, zg)[0] for u in model.units}
     for u in model.units:
-        assert after[u] == pytest.approx(before[u], rel=1e-12)  # got inf for unit 0
+        assert after[u] == pytest.approx(before[u], rel=1e-12)  # before the fix: inf for unit 0
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "solve(method='paths') stops after well under a second of a 20 s limit (column generation ends with no "
-    "improving path, the integer master over the generated paths and the local search find nothing better) "
-    "with the 4.2 % gap of the master's relaxation open (bound 766.685, value 800.017, which is in fact "
-    "optimal), and reports status 'time limit', which Status documents as 'stopped by the time limit'; the "
-    "compact model proves the same value optimal"))
 def test_paths_status_time_limit_only_when_the_limit_was_reached() -> None:
     """Truth: bf_optimum = 800.0169 (and the meaning of Status.TIME_LIMIT). 3 stacks of 3 storeys, rectangles
     turned freely, 6 types, price 150 per section, steps limited to 25 mm per face."""
@@ -769,13 +762,9 @@ def test_paths_status_time_limit_only_when_the_limit_was_reached() -> None:
     assert solve(p, method="compact", gap_rel=0.0, time_limit_s=20).status == "optimal"
     s = solve(p, method="paths", gap_rel=0.0, time_limit_s=20)
     assert_solved(p, s, truth)  # the schedule and the bound are right
-    assert s.status == "optimal" or s.seconds >= 0.5 * 20  # got "time limit" after well under 1 s
+    assert s.status == "optimal" or s.seconds >= 0.5 * 20  # before the fix: "time limit" after well under 1 s
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "when no schedule keeps the type cap, solve(method='paths') returns status 'no schedule' (documented as "
-    "'stopped by the time limit without a schedule') after a few hundredths of a second of a 5 s limit, "
-    "with a finite bound 1000495.0 (the cap slack's big-M price); the compact model proves 'infeasible'"))
 def test_paths_cap_that_no_schedule_meets_is_infeasible() -> None:
     """Closed form: stack C1 can only take type T0 (300 x 300) and stack C2 only T1 (400 x 400), so every
     schedule uses 2 types, more than the cap of 1."""
@@ -784,15 +773,9 @@ def test_paths_cap_that_no_schedule_meets_is_infeasible() -> None:
     assert solve(p, method="compact", gap_rel=0.0, time_limit_s=5).status == "infeasible"
     s = solve(p, method="paths", gap_rel=0.0, time_limit_s=5)
     assert math.isinf(s.objective)
-    assert s.status == "infeasible"  # got "no schedule"
+    assert s.status == "infeasible"  # before the fix: "no schedule"
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "ip.solve(method='compact') with max_grades: the greedy warm start (heuristic.rationalise) ignores the "
-    "grade cap, so its value (2481.07, 2 grades) is below every feasible schedule; reduce_problem prunes with "
-    "it as incumbent, HiGHS finds the pruned model infeasible, and solve returns status 'infeasible' with "
-    "that warm start as schedule (objective 2481.07, breaking the cap of 1 grade). True optimum 4380.5663; "
-    "reduce=False, or a feasible warm start, gives it"))
 def test_compact_grade_cap_warm_start_prunes_every_feasible_schedule() -> None:
     """Truth: bf_optimum. 3 stacks x 4 storeys, 8 types, seed 36, cost objective, max_grades = 1."""
     p = synthetic_problem(SyntheticSpec(n_stacks=3, n_levels=4, n_types=8, seed=36),
@@ -802,15 +785,10 @@ def test_compact_grade_cap_warm_start_prunes_every_feasible_schedule() -> None:
     assert solve(p, method="compact", gap_rel=0.0, reduce=False).objective == pytest.approx(truth, rel=1e-9)
     assert solve(p, method="paths", gap_rel=0.0).objective == pytest.approx(truth, rel=1e-9)
     s = solve(p, method="compact", gap_rel=0.0, time_limit_s=30)
-    assert s.status != "infeasible"  # got "infeasible"
-    assert_solved(p, s, truth)  # got objective 2481.07 with 2 grades
+    assert s.status != "infeasible"  # before the fix: "infeasible"
+    assert_solved(p, s, truth)  # before the fix: objective 2481.07 with 2 grades
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "ip.solve(method='auto') with max_grade_changes=0 (path formulation declined, compact model used): the "
-    "greedy warm start ignores the cap on grade changes, its value (2512.04) is below every feasible "
-    "schedule, reduce_problem prunes with it, and solve returns status 'infeasible' with that warm start "
-    "(grade changes in stack C3 breaking the cap). True optimum 2724.0799"))
 def test_compact_grade_change_cap_warm_start_prunes_every_feasible_schedule() -> None:
     """Truth: bf_optimum. 3 stacks x 4 storeys, 8 types, seed 12, half the stacks turned freely, cost
     objective, max_grade_changes = 0 and nothing else coupling the stacks."""
@@ -820,5 +798,5 @@ def test_compact_grade_change_cap_warm_start_prunes_every_feasible_schedule() ->
     assert truth == pytest.approx(2724.0799259059227, rel=1e-9)
     assert solve(p, method="compact", gap_rel=0.0, reduce=False).objective == pytest.approx(truth, rel=1e-9)
     s = solve(p, method="auto", gap_rel=0.0, time_limit_s=30)
-    assert s.status != "infeasible"  # got "infeasible"
+    assert s.status != "infeasible"  # before the fix: "infeasible"
     assert_solved(p, s, truth)
