@@ -457,57 +457,50 @@ def _local_search(model: PathModel, counting: _Counting, columns: dict[int, _Col
     for col in cur.values():
         master.add(col)
     has_type = {u: set(np.unique(np.concatenate([ch.typ for ch in model.chains[u]])).tolist()) for u in model.units}
+
+    def used() -> set[int]:
+        return {x for col in cur.values() for x in col.types}
+
+    def better(trial_types: set[int], units: list[int]) -> dict[int, _Column] | None:
+        """The schedule with ``units`` re-routed over ``trial_types``, if it keeps the caps and pays."""
+        if not units or not counting.allows(p, trial_types):
+            return None
+        new = _reroute(model, trial_types, units, pool)
+        if new is None:
+            return None
+        trial = {**cur, **new}
+        if _schedule_value(model, counting, trial) < _schedule_value(model, counting, cur) - 1e-9:
+            return trial
+        return None
+
     improved = True
     while improved and time.perf_counter() < deadline:
         improved = False
         # drop one type: re-route only the units that use it
-        for t in sorted({t for col in cur.values() for t in col.types}):
+        for t in sorted(used()):
             if time.perf_counter() > deadline:
                 break
-            users = [u for u, col in cur.items() if t in col.types]
-            if not users:
-                continue
-            types = {x for col in cur.values() for x in col.types}
-            new = _reroute(model, types - {t}, users, pool)
-            if new is None:
-                continue
-            trial = {**cur, **new}
-            if _schedule_value(model, counting, trial) < _schedule_value(model, counting, cur) - 1e-9:
-                cur = trial
-                improved = True
+            found = better(used() - {t}, [u for u, col in cur.items() if t in col.types])
+            if found is not None:
+                cur, improved = found, True
         # add one type (from the relaxation's support): the units that can use it may move to it
         for t in add_from:
-            types = {x for col in cur.values() for x in col.types}
-            if t in types or time.perf_counter() > deadline or not counting.allows(p, types | {t}):
+            if t in used() or time.perf_counter() > deadline:
                 continue
-            units = [u for u in model.units if t in has_type[u]]
-            new = _reroute(model, types | {t}, units, pool)
-            if new is None:
-                continue
-            trial = {**cur, **new}
-            if _schedule_value(model, counting, trial) < _schedule_value(model, counting, cur) - 1e-9:
-                cur = trial
-                improved = True
+            found = better(used() | {t}, [u for u in model.units if t in has_type[u]])
+            if found is not None:
+                cur, improved = found, True
         # swap one type for another (when a cap stops plain additions)
-        if not improved:
-            for t_new in add_from[:12]:
-                types = {x for col in cur.values() for x in col.types}
-                if t_new in types or time.perf_counter() > deadline:
-                    continue
-                for t_old in sorted(types):
-                    trial_types = (types - {t_old}) | {t_new}
-                    if not counting.allows(p, trial_types) or time.perf_counter() > deadline:
-                        continue
-                    units = sorted({u for u, col in cur.items() if t_old in col.types}
-                                   | {u for u in model.units if t_new in has_type[u]})
-                    new = _reroute(model, trial_types, units, pool)
-                    if new is None:
-                        continue
-                    trial = {**cur, **new}
-                    if _schedule_value(model, counting, trial) < _schedule_value(model, counting, cur) - 1e-9:
-                        cur = trial
-                        improved = True
-                        break
+        for t_new in add_from[:12] if not improved else []:
+            for t_old in sorted(used()) if t_new not in used() else []:
+                if time.perf_counter() > deadline:
+                    break
+                units = sorted({u for u, col in cur.items() if t_old in col.types}
+                               | {u for u in model.units if t_new in has_type[u]})
+                found = better((used() - {t_old}) | {t_new}, units)
+                if found is not None:
+                    cur, improved = found, True
+                    break
         for col in cur.values():
             master.add(col)
     return cur
