@@ -49,7 +49,7 @@ from optimizer import stackdp
 from optimizer.heuristic import _Prepared, _run_states, figures, transition
 from optimizer.problem import Schedule, ScheduleProblem
 
-__all__ = ["applicable", "PathModel", "solve_paths"]
+__all__ = ["applicable", "PathModel", "solve_paths", "min_counts"]
 
 _TOL = 1e-9
 
@@ -161,13 +161,17 @@ class PathModel:
         """Rows (candidates) left in all chains."""
         return int(sum(len(ch.typ) for chs in self.chains.values() for ch in chs))
 
-    def price(self, ui: int, pen: np.ndarray, gpen: np.ndarray) -> tuple[float, _Column | None]:
-        """Cheapest penalised path of a unit over its orientations, as a column (None when there is none)."""
+    def price(self, ui: int, pen: np.ndarray, gpen: np.ndarray, weights: bool = True) -> tuple[float, _Column | None]:
+        """Cheapest penalised path of a unit over its orientations, as a column (None when there is none).
+
+        With ``weights=False`` the paths cost only their penalties (phase one: finding paths that keep the caps).
+        """
         best: tuple[float, _Chain | None, np.ndarray | None] = (np.inf, None, None)
         for ch in self.chains[ui]:
             if len(ch.typ) == 0:
                 continue
-            f, back, bs = stackdp.forward(ch.off, ch.typ, ch.w, ch.st, self.ok_up, self.big_up, self.sec, self.gid,
+            w, st = (ch.w, ch.st) if weights else (np.zeros_like(ch.w), np.zeros_like(ch.st))
+            f, back, bs = stackdp.forward(ch.off, ch.typ, w, st, self.ok_up, self.big_up, self.sec, self.gid,
                                           pen, gpen, self.m)
             val, rows = stackdp.trace(ch.off, f, back, bs)
             if rows is not None and val < best[0]:
@@ -312,6 +316,7 @@ class _Master:
         self.big_m = big_m
         self.columns: list[_Column] = []
         self._seen: set[tuple[int, bytes]] = set()
+        self.phase_one = False  # costs 0 on paths and prices, 1 on the cap slack
 
     def add(self, col: _Column) -> bool:
         key = (col.unit, col.cands.tobytes())
@@ -329,12 +334,14 @@ class _Master:
         bld = _Builder()
         rows = _MasterRows({}, {}, {}, [], {})
         by_unit: dict[int, list[int]] = {}
+        one = 0.0 if self.phase_one else 1.0
         for i, col in enumerate(self.columns):
-            rows.lam.append(bld.col(f"path_u{col.unit}_{i}", ("lam", i), cost=col.cost, integer=integer))
+            rows.lam.append(bld.col(f"path_u{col.unit}_{i}", ("lam", i), cost=col.cost * one, integer=integer))
             by_unit.setdefault(col.unit, []).append(i)
         art = None
         if not integer and (cnt.cap_t is not None or cnt.cap_s is not None or cnt.cap_g is not None):
-            art = bld.col("cap_slack", ("art",), ub=np.inf, integer=False, cost=self.big_m)
+            art = bld.col("cap_slack", ("art",), ub=np.inf, integer=False,
+                          cost=1.0 if self.phase_one else self.big_m)
             rows.art = art
         for u, idx in by_unit.items():
             rows.conv[u] = len(bld.r_name)
@@ -342,7 +349,7 @@ class _Master:
         if cnt.types:
             used = sorted({t for col in self.columns for t in col.types})
             for t in used:
-                rows.y[t] = bld.col(f"y_t{t}", ("y", t), cost=cnt.price_t, integer=integer)
+                rows.y[t] = bld.col(f"y_t{t}", ("y", t), cost=cnt.price_t * one, integer=integer)
             for u, idx in by_unit.items():
                 users: dict[int, list[int]] = {}
                 for i in idx:
@@ -357,7 +364,7 @@ class _Master:
                         -np.inf, float(cnt.cap_t))
             if cnt.sections:
                 sec = p.types.section
-                s_col = {int(s): bld.col(f"section_{int(s)}", ("sec", int(s)), cost=cnt.price_s, integer=integer)
+                s_col = {int(s): bld.col(f"section_{int(s)}", ("sec", int(s)), cost=cnt.price_s * one, integer=integer)
                          for s in np.unique(sec[used])} if used else {}
                 for t in used:
                     bld.row(f"section_link_t{t}", [rows.y[t], s_col[int(sec[t])]], [1.0, -1.0], -np.inf, 0.0)
@@ -421,6 +428,10 @@ class _State:
     value: float = np.inf
     columns: dict[int, _Column] | None = None
     bound: float = -np.inf
+
+
+def _unit_name(model: PathModel, ui: int) -> str:
+    return ", ".join(model.problem.stack_names[s] for s in model.prep.units[ui].stacks)
 
 
 def _schedule_value(model: PathModel, counting: _Counting, columns: dict[int, _Column]) -> float:
@@ -568,6 +579,33 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
                     state.value, state.columns = v, cols  # type: ignore[assignment]
         state.bound = sum(col.cost for col in free_cols.values()) + (
             min(counting.price_t, counting.price_t) * counting.types + counting.price_s * counting.sections)
+        capped = counting.cap_t is not None or counting.cap_s is not None or counting.cap_g is not None
+        if capped and state.columns is None:
+            need_t, need_g = min_counts(model, pool)
+            why = []
+            u_t = max(need_t, key=need_t.get)
+            if counting.cap_t is not None and need_t[u_t] > counting.cap_t:
+                why.append(f"stack {_unit_name(model, u_t)} cannot be built with fewer than {need_t[u_t]} types "
+                           f"(cap {counting.cap_t})")
+            u_g = max(need_g, key=need_g.get)
+            if counting.cap_g is not None and need_g[u_g] > counting.cap_g:
+                why.append(f"stack {_unit_name(model, u_g)} cannot be built with fewer than {need_g[u_g]} concrete "
+                           f"grades (cap {counting.cap_g})")
+            if why:
+                return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=Status.INFEASIBLE.value,
+                                objective=np.inf, bound=np.inf, gap=np.inf, solver="path formulation",
+                                seconds=time.perf_counter() - t_all, notes=tuple(notes + why))
+            t1 = time.perf_counter()
+            ok = _phase_one(model, master, pool, t_all + 0.3 * time_limit_s)
+            notes.append(f"phase one (paths within the caps): {ok} in {time.perf_counter() - t1:.1f} s, "
+                         f"{len(master.columns)} paths")
+            say(notes[-1])
+            if ok is False:
+                notes.append("the caps cannot be met: even a mixture of all buildable paths breaks them "
+                             "(see optimizer.diagnose)")
+                return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=Status.INFEASIBLE.value,
+                                objective=np.inf, bound=np.inf, gap=np.inf, solver="path formulation",
+                                seconds=time.perf_counter() - t_all, notes=tuple(notes))
         # column generation
         t_cg = time.perf_counter()
         cg_deadline = t_all + 0.6 * time_limit_s
@@ -685,7 +723,7 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
                     seconds=secs, notes=tuple(notes) + _figure_notes(fig))
 
 
-_FINISH_MAX_CANDIDATES = 300_000
+_FINISH_MAX_CANDIDATES = 20_000  # the compact model stays within its time limit at this size
 
 
 def _finish_compact(problem: ScheduleProblem, state: _State, model: PathModel, solver: str, remaining: float,
@@ -767,6 +805,61 @@ def _types_and_sections(problem: ScheduleProblem, counting: _Counting, types: np
     info = h.getInfo()
     # the MIP's dual bound is a valid lower bound even if it stopped early
     return float(min(info.mip_dual_bound, info.objective_function_value))
+
+
+def _phase_one(model: PathModel, master: _Master, pool: ThreadPoolExecutor, deadline: float) -> bool | None:
+    """Find paths whose mixture keeps the caps (the relaxation without its cap slack); False if none can.
+
+    Column generation on the master with zero costs and the cap slack priced at 1: when no path has a negative
+    reduced cost and the slack is still positive, the relaxation over all paths breaks the caps, so no schedule
+    keeps them (a proof). Returns True when the slack reached 0, None when time ran out first.
+    """
+    master.phase_one = True
+    try:
+        while time.perf_counter() < deadline:
+            value, duals, rows, _ = master.solve_lp(None)
+            if value <= 1e-9:
+                return True
+            pen, gpen, alpha = master.penalties(duals, rows)
+            priced = list(pool.map(lambda u, pen=pen, gpen=gpen: model.price(u, pen[u], gpen[u], weights=False),
+                                   model.units))
+            added = 0
+            for u, (val, col) in zip(model.units, priced, strict=True):
+                if col is not None and val - alpha[u] < -1e-9 and master.add(col):
+                    added += 1
+            if added == 0 or _phase_one_bound(model, master.counting, pen, priced) > 1e-9:
+                return False
+        return None
+    finally:
+        master.phase_one = False
+
+
+def _phase_one_bound(model: PathModel, counting: _Counting, pen: dict[int, np.ndarray], priced: list) -> float:
+    """A lower bound on the cap slack any schedule needs (types capped alone; -inf otherwise).
+
+    Relaxing the linking rows with ``pen``: the paths cost their entry penalties (``priced``); the types are
+    then worth ``c_t = sum_u pen_u[t]`` each, the first ``cap`` of them free and every further one at the price
+    of one unit of slack. Positive means no schedule keeps the cap.
+    """
+    if counting.cap_t is None or counting.sections or counting.grades:
+        return -np.inf
+    c = np.sort(np.sum([pen[u] for u in model.units], axis=0))[::-1]
+    k = counting.cap_t
+    return float(sum(v for v, _ in priced) - c[:k].sum() - np.maximum(c[k:] - 1.0, 0.0).sum())
+
+
+def min_counts(model: PathModel, pool: ThreadPoolExecutor) -> tuple[dict[int, int], dict[int, int]]:
+    """Fewest distinct types and fewest distinct grades any path of each unit can use (exact, per unit).
+
+    Paths weighted by nothing but an entry cost of 1 per type (or per grade): every type is entered once
+    along a path, so the cheapest such path uses the fewest types.
+    """
+    n_t, n_g = len(model.problem.types), len(model.grades)
+    ones_t, zero_t, ones_g, zero_g = np.ones(n_t), np.zeros(n_t), np.ones(n_g), np.zeros(n_g)
+    types = list(pool.map(lambda u: model.price(u, ones_t, zero_g, weights=False)[0], model.units))
+    grades = list(pool.map(lambda u: model.price(u, zero_t, ones_g, weights=False)[0], model.units))
+    return ({u: round(v) for u, v in zip(model.units, types, strict=True) if np.isfinite(v)},
+            {u: round(v) for u, v in zip(model.units, grades, strict=True) if np.isfinite(v)})
 
 
 def _gap(state: _State) -> float:

@@ -800,3 +800,30 @@ def test_compact_grade_change_cap_warm_start_prunes_every_feasible_schedule() ->
     s = solve(p, method="auto", gap_rel=0.0, time_limit_s=30)
     assert s.status != "infeasible"  # before the fix: "infeasible"
     assert_solved(p, s, truth)
+
+
+def test_min_counts_and_a_cap_below_a_stacks_own_need() -> None:
+    """Closed form: stack C1 can only take T2 (400 x 400, 4H20) at its foot and T0 (300 x 300) at its top, so
+    every path of C1 uses 2 types and 1 grade; C2 can stay on T1 throughout (1 type). With a cap of 1 type the
+    problem is infeasible, and the reason names stack C1 (found without any integer program)."""
+    from concurrent.futures import ThreadPoolExecutor
+
+    p = hand_problem(HAND_TYPES, [[[(2, 15.0)], [(0, 10.0)]], [[(1, 12.0), (2, 14.0)], [(1, 11.0)]]],
+                     Rules(max_types=1))
+    model = paths.PathModel(p)
+    with ThreadPoolExecutor(max_workers=1) as pool:
+        need_t, need_g = paths.min_counts(model, pool)
+    assert sorted(need_t.values()) == [1, 2]
+    assert set(need_g.values()) == {1}
+    assert bf_optimum(p)[0] == math.inf
+    s = solve(p, method="paths", gap_rel=0.0, time_limit_s=5)
+    assert s.status == "infeasible"
+    assert any("stack C1" in n and "2 types" in n for n in s.notes)
+    # with a cap of 2 the brute force decides (T0 and T2 for C1 leave C2 only T2 then ... nothing 400 x 400 with
+    # 4H20 above it): both formulations must agree with it, value or infeasibility
+    p2 = hand_problem(HAND_TYPES, [[[(2, 15.0)], [(0, 10.0)]], [[(1, 12.0), (2, 14.0)], [(1, 11.0)]]],
+                      Rules(max_types=2))
+    truth, _ = bf_optimum(p2)
+    for method in ("paths", "compact"):
+        got = solve(p2, method=method, gap_rel=0.0, time_limit_s=10)
+        assert got.objective == pytest.approx(truth, rel=1e-9) if math.isfinite(truth) else got.status == "infeasible"
