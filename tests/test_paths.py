@@ -819,11 +819,10 @@ def test_min_counts_and_a_cap_below_a_stacks_own_need() -> None:
     s = solve(p, method="paths", gap_rel=0.0, time_limit_s=5)
     assert s.status == "infeasible"
     assert any("stack C1" in n and "2 types" in n for n in s.notes)
-    # with a cap of 2 the brute force decides (T0 and T2 for C1 leave C2 only T2 then ... nothing 400 x 400 with
-    # 4H20 above it): both formulations must agree with it, value or infeasibility
+    # with a cap of 2: C2's top takes only T1, so every schedule uses T0, T1 and T2; this needs the
+    # building-wide argument (phase one), not a single stack's count
     p2 = hand_problem(HAND_TYPES, [[[(2, 15.0)], [(0, 10.0)]], [[(1, 12.0), (2, 14.0)], [(1, 11.0)]]],
                       Rules(max_types=2))
-    truth, _ = bf_optimum(p2)
+    assert bf_optimum(p2)[0] == math.inf
     for method in ("paths", "compact"):
-        got = solve(p2, method=method, gap_rel=0.0, time_limit_s=10)
-        assert got.objective == pytest.approx(truth, rel=1e-9) if math.isfinite(truth) else got.status == "infeasible"
+        assert solve(p2, method=method, gap_rel=0.0, time_limit_s=10).status == "infeasible"
