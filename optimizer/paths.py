@@ -144,6 +144,18 @@ class PathModel:
             unit = prep.units[ui]
             self.chains[ui] = [self._chain(ui, o, levels) for o, levels in unit.orients.items()]
         self.weight = prep.weight
+        # how many units can use each type (each grade): the split of an unopened type's price among them
+        self.avail: dict[int, np.ndarray] = {}  # unit -> types it can use (bool)
+        self.gavail: dict[int, np.ndarray] = {}  # unit -> grades it can use (bool)
+        for ui in self.units:
+            ts = np.unique(np.concatenate([ch.typ for ch in self.chains[ui]] + [np.zeros(0, dtype=np.int64)]))
+            self.avail[ui] = np.zeros(n_t, dtype=bool)
+            self.avail[ui][ts] = True
+            self.gavail[ui] = np.zeros(len(grades), dtype=bool)
+            self.gavail[ui][np.unique(self.gid[ts])] = True
+        self.type_count = np.maximum(np.sum(list(self.avail.values()), axis=0), 1) if self.units else np.ones(n_t)
+        self.grade_count = (np.maximum(np.sum(list(self.gavail.values()), axis=0), 1) if self.units
+                            else np.ones(len(grades)))
 
     def _chain(self, ui: int, o: int, levels: list) -> _Chain:  # noqa: ANN001
         mult = self.mult[ui]
@@ -305,6 +317,11 @@ class _MasterRows:
     lam: list[int]
     y: dict[int, int]
     art: int | None = None
+    cap_t: int | None = None  # row of the type cap
+    cap_s: int | None = None  # row of the section cap
+    cap_g: int | None = None  # row of the grade cap
+    sec: dict[int, int] | None = None  # section id -> column
+    grade: dict[int, int] | None = None  # grade id -> column
 
 
 class _Master:
@@ -360,16 +377,19 @@ class _Master:
                     bld.row(f"link_u{u}_t{t}", lams + [rows.y[t]], [1.0] * len(lams) + [-1.0], -np.inf, 0.0)
             if cnt.cap_t is not None:
                 extra = [art] if art is not None else []
+                rows.cap_t = len(bld.r_name)
                 bld.row("cap_types", [rows.y[t] for t in used] + extra, [1.0] * len(used) + [-1.0] * len(extra),
                         -np.inf, float(cnt.cap_t))
             if cnt.sections:
                 sec = p.types.section
                 s_col = {int(s): bld.col(f"section_{int(s)}", ("sec", int(s)), cost=cnt.price_s * one, integer=integer)
                          for s in np.unique(sec[used])} if used else {}
+                rows.sec = s_col
                 for t in used:
                     bld.row(f"section_link_t{t}", [rows.y[t], s_col[int(sec[t])]], [1.0, -1.0], -np.inf, 0.0)
                 if cnt.cap_s is not None:
                     extra = [art] if art is not None else []
+                    rows.cap_s = len(bld.r_name)
                     bld.row("cap_sections", list(s_col.values()) + extra,
                             [1.0] * len(s_col) + [-1.0] * len(extra), -np.inf, float(cnt.cap_s))
         if cnt.grades:
@@ -383,36 +403,70 @@ class _Master:
                 for g, lams in users.items():
                     rows.glink[(u, g)] = len(bld.r_name)
                     bld.row(f"grade_link_u{u}_g{g}", lams + [g_col[g]], [1.0] * len(lams) + [-1.0], -np.inf, 0.0)
+            rows.grade = g_col
             extra = [art] if art is not None else []
+            rows.cap_g = len(bld.r_name)
             bld.row("cap_grades", list(g_col.values()) + extra, [1.0] * len(g_col) + [-1.0] * len(extra),
                     -np.inf, float(cnt.cap_g))
         empty = Reduction(np.zeros(0, dtype=bool), np.zeros(0, dtype=int), np.zeros(0, dtype=int))
         form = bld.finish(0, np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64), empty)
         return form, rows
 
-    def solve_lp(self, threads: int | None) -> tuple[float, np.ndarray, _MasterRows, np.ndarray]:
-        """The master's linear relaxation: value, row duals, row map and column values."""
+    def solve_lp(self, threads: int | None) -> tuple[float, tuple[np.ndarray, np.ndarray], _MasterRows, np.ndarray]:
+        """The master's linear relaxation: value, (row duals, column reduced costs), row map and column values."""
         from optimizer.ip import build_highs
 
         form, rows = self.formulation(integer=False)
         h = build_highs(form, threads)
         h.run()
         sol = h.getSolution()
-        return (float(h.getInfo().objective_function_value), np.asarray(sol.row_dual), rows,
-                np.asarray(sol.col_value))
+        return (float(h.getInfo().objective_function_value), (np.asarray(sol.row_dual), np.asarray(sol.col_dual)),
+                rows, np.asarray(sol.col_value))
 
-    def penalties(self, duals: np.ndarray, rows: _MasterRows) -> tuple[dict[int, np.ndarray], dict[int, np.ndarray],
-                                                                       dict[int, float]]:
-        """Entry costs of types and grades per unit, and the convexity duals."""
-        n_t = len(self.model.problem.types)
+    def penalties(self, duals: tuple[np.ndarray, np.ndarray], rows: _MasterRows
+                  ) -> tuple[dict[int, np.ndarray], dict[int, np.ndarray], dict[int, float]]:
+        """Entry costs of types and grades per unit, and the convexity duals.
+
+        A linking row in the master gives its dual. Rows not (yet) in the master share what opening their type
+        would cost: the reduced cost of y_t when y_t is in the master, else its price plus the cap's shadow
+        price (and its section's when that is not open), split evenly among the units that can use the type.
+        The duals then stay feasible for every y column, present or not, so a path using a new type pays its
+        share instead of nothing, the Lagrangian bound reaches the relaxation's value when no path prices out,
+        and that is then a proof (any non-negative values would give a valid bound; these give a good one).
+        """
+        row_dual, col_dual = duals
+        p = self.model.problem
+        cnt = self.counting
+        n_t = len(p.types)
         n_g = len(self.model.grades)
-        pen = {u: np.zeros(n_t) for u in self.model.units}
-        gpen = {u: np.zeros(n_g) for u in self.model.units}
+        one = 0.0 if self.phase_one else 1.0
+
+        def shadow(row: int | None) -> float:
+            return max(0.0, -float(row_dual[row])) if row is not None else 0.0
+
+        base = np.zeros(n_t)
+        if cnt.types:
+            base[:] = cnt.price_t * one + shadow(rows.cap_t)
+            if cnt.sections:
+                open_s = set(rows.sec or {})
+                closed = ~np.isin(p.types.section, list(open_s))
+                base[closed] += cnt.price_s * one + shadow(rows.cap_s)
+            for t, j in rows.y.items():
+                base[t] = max(0.0, float(col_dual[j]))
+            base /= self.model.type_count
+        gbase = np.zeros(n_g)
+        if cnt.grades:
+            gbase[:] = shadow(rows.cap_g)
+            for g, j in (rows.grade or {}).items():
+                gbase[g] = max(0.0, float(col_dual[j]))
+            gbase /= self.model.grade_count
+        pen = {u: np.where(self.model.avail[u], base, 0.0) for u in self.model.units}
+        gpen = {u: np.where(self.model.gavail[u], gbase, 0.0) for u in self.model.units}
         for (u, t), i in rows.link.items():
-            pen[u][t] = max(0.0, -float(duals[i]))
+            pen[u][t] = max(0.0, -float(row_dual[i]))
         for (u, g), i in rows.glink.items():
-            gpen[u][g] = max(0.0, -float(duals[i]))
-        alpha = {u: float(duals[i]) for u, i in rows.conv.items()}
+            gpen[u][g] = max(0.0, -float(row_dual[i]))
+        alpha = {u: float(row_dual[i]) for u, i in rows.conv.items()}
         return pen, gpen, alpha
 
 
@@ -621,6 +675,12 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
             rounds += 1
             lp_value, duals, rows_lp, x_lp = master.solve_lp(threads)
             pen_lp, gpen_lp, alpha = master.penalties(duals, rows_lp)
+            integral = _integral_columns(master, rows_lp, x_lp)
+            if integral is not None:  # the relaxation chose one whole path per unit: a schedule
+                v = _schedule_value(model, counting, integral)
+                if v < state.value - 1e-9 and counting.allows(problem, {t for c in integral.values()
+                                                                        for t in c.types}):
+                    state.value, state.columns = v, integral
             added = 0
             for mix in ((smooth, 0.0) if center is not None else (0.0,)):
                 if mix > 0.0 and center is not None:
@@ -860,6 +920,20 @@ def min_counts(model: PathModel, pool: ThreadPoolExecutor) -> tuple[dict[int, in
     grades = list(pool.map(lambda u: model.price(u, zero_t, ones_g, weights=False)[0], model.units))
     return ({u: round(v) for u, v in zip(model.units, types, strict=True) if np.isfinite(v)},
             {u: round(v) for u, v in zip(model.units, grades, strict=True) if np.isfinite(v)})
+
+
+def _integral_columns(master: _Master, rows: _MasterRows, x: np.ndarray) -> dict[int, _Column] | None:
+    """The chosen path of every unit when the relaxation's solution is integral in the paths (else None)."""
+    lam = x[rows.lam] if len(x) else np.zeros(0)
+    if len(lam) == 0 or np.any((lam > 1e-6) & (lam < 1.0 - 1e-6)):
+        return None
+    if rows.art is not None and x[rows.art] > 1e-6:
+        return None
+    chosen = {}
+    for i in np.flatnonzero(lam > 0.5):
+        col = master.columns[i]
+        chosen[col.unit] = col
+    return chosen if len(chosen) == len(master.model.units) else None
 
 
 def _gap(state: _State) -> float:
