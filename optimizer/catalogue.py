@@ -37,7 +37,6 @@ the integer program needs the heavier type to stay available.
 
 from __future__ import annotations
 
-import difflib
 import math
 from dataclasses import dataclass
 from enum import StrEnum
@@ -52,7 +51,7 @@ from design.member import extra_ties
 from design.params import NationalParameters
 from design.resistance import DesignSection
 from design.sections import CircBars, CircSection, RectBars, RectSection, parse_bar_notation
-from optimizer.errors import InputError
+from optimizer.errors import InputError, reject_unknown_keys
 from optimizer.scenario import _MISSING, Scenario, _Table
 
 __all__ = ["Shape", "CatalogueSpec", "ColumnType", "Catalogue", "read_catalogue_spec", "build_catalogue",
@@ -222,11 +221,7 @@ def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:
 
 def reject_unknown(t: _Table, allowed: set[str]) -> None:
     """InputError for the first key of ``t`` not in ``allowed``, with a "did you mean" suggestion."""
-    for key in t.data:
-        if key not in allowed:
-            close = difflib.get_close_matches(key, sorted(allowed), n=1)
-            hint = f"; did you mean {close[0]!r}?" if close else ""
-            raise InputError(t.file, t.key(key), t.data[key], f"unknown key{hint}")
+    reject_unknown_keys(t.file, t.path, t.data, allowed)
 
 
 def required_cover(scenario: Scenario, spec: CatalogueSpec, params: NationalParameters):

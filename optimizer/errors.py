@@ -2,7 +2,11 @@
 
 from __future__ import annotations
 
-__all__ = ["ColstackError", "InputError", "DesignImpossible", "EXIT_INPUT", "EXIT_IMPOSSIBLE"]
+import difflib
+from collections.abc import Iterable, Mapping
+
+__all__ = ["ColstackError", "InputError", "DesignImpossible", "EXIT_INPUT", "EXIT_IMPOSSIBLE", "did_you_mean",
+           "reject_unknown_keys"]
 
 EXIT_INPUT = 2
 EXIT_IMPOSSIBLE = 3
@@ -40,3 +44,25 @@ class DesignImpossible(ColstackError):
         super().__init__(message)
         self.details = list(details or [])
         self.partial = partial
+
+
+def did_you_mean(word: str, options: Iterable[str]) -> str:
+    """``"; did you mean 'x'?"`` for the closest option to a mistyped word, or ``""`` when none is close."""
+    close = difflib.get_close_matches(str(word), [str(o) for o in options], n=1, cutoff=0.6)
+    return f"; did you mean {close[0]!r}?" if close else ""
+
+
+def reject_unknown_keys(file: str, where: str, data: Mapping, allowed: Iterable[str]) -> None:
+    """InputError for the first key of ``data`` not in ``allowed``, naming the closest allowed key (or all of them).
+
+    Args:
+        file: the file the table came from.
+        where: the table's key path (e.g. "optimizer"), "" at the top level.
+        data: the table.
+        allowed: the keys the table may have.
+    """
+    allowed = sorted(allowed)
+    for key in data:
+        if key not in allowed:
+            hint = did_you_mean(key, allowed) or f"; expected one of {', '.join(allowed)}"
+            raise InputError(file, f"{where}.{key}" if where else str(key), data[key], f"unknown key{hint}")

@@ -41,7 +41,7 @@ from shapely.geometry import Polygon
 
 from design.materials import Ductility, parse_concrete_class
 from design.params import NationalParameters, ParameterSet, parameter_set, with_overrides
-from optimizer.errors import InputError
+from optimizer.errors import InputError, did_you_mean
 from optimizer.loads import PSI_FACTORS, Category, Combination, ImposedReduction
 
 __all__ = [
@@ -377,9 +377,6 @@ class Scenario:
 _MISSING = object()
 
 
-def _suggest(word: str, options: Iterable[str]) -> str:
-    close = difflib.get_close_matches(word, list(options), n=1, cutoff=0.6)
-    return f"; did you mean {close[0]!r}?" if close else ""
 
 
 class _Table:
@@ -425,7 +422,7 @@ class _Table:
         try:
             return enum(value)
         except ValueError:
-            hint = _suggest(str(value), options)
+            hint = did_you_mean(str(value), options)
             raise InputError(self.file, self.key(name), value,
                              f"one of {', '.join(map(repr, options))}{hint}") from None
 
@@ -462,7 +459,7 @@ class _Table:
     def done(self) -> None:
         for name in self.data:
             if name not in self.used:
-                hint = _suggest(name, self.used)
+                hint = did_you_mean(name, self.used)
                 if self.path and name in TOP_LEVEL_KEYS:
                     hint += (f"; a top-level {name!r} must come before the first [table] "
                              "header (TOML puts later keys into that table)")
@@ -585,7 +582,7 @@ def _level_range(file: str, key: str, value: object, index: Mapping[str, int],
         raise InputError(file, key, value, "a level name or a range [\"FIRST\", \"LAST\"]")
     for v in value:
         if v not in index:
-            raise InputError(file, key, v, f"a known level name{_suggest(v, index)}")
+            raise InputError(file, key, v, f"a known level name{did_you_mean(v, index)}")
     lo, hi = index[value[0]], index[value[-1]]
     if lo > hi:
         raise InputError(file, key, value, "a range from a lower level to a higher one")
@@ -600,7 +597,7 @@ def _stack_list(file: str, key: str, value: object, known: Iterable[str]) -> tup
         raise InputError(file, key, value, "a list of stack ids")
     for v in value:
         if v not in known:
-            raise InputError(file, key, v, f"a known stack id{_suggest(v, known)}")
+            raise InputError(file, key, v, f"a known stack id{did_you_mean(v, known)}")
     return tuple(value)
 
 
@@ -642,7 +639,7 @@ def _read_stacks(top: _Table, levels: Sequence[Level]) -> tuple[Stack, ...]:
         hi = t.str_("to_level")
         for key, v in (("from_level", lo), ("to_level", hi)):
             if v not in index:
-                raise InputError(t.file, t.key(key), v, f"a known level name{_suggest(v, index)}")
+                raise InputError(t.file, t.key(key), v, f"a known level name{did_you_mean(v, index)}")
         if index[lo] > index[hi]:
             raise InputError(t.file, t.key("to_level"), hi,
                              f"a level at or above from_level {lo!r}")
@@ -660,7 +657,7 @@ def _read_support(t: _Table, sid: str) -> tuple[SupportKind, tuple[tuple[str, fl
     if isinstance(value, str):
         if value in (SupportKind.FOUNDATION.value, SupportKind.EXTERNAL.value):
             return SupportKind(value), ()
-        raise InputError(t.file, key, value, expected + _suggest(value, ["foundation", "external"]))
+        raise InputError(t.file, key, value, expected + did_you_mean(value, ["foundation", "external"]))
     if not isinstance(value, dict) or not value:
         raise InputError(t.file, key, value, expected)
     carried = []
@@ -687,7 +684,7 @@ def _check_stack_supports(file: str, stacks: Sequence[Stack], levels: Sequence[L
         for other, _ in s.carried_by:
             key = f"stacks[{s.index}].stands_on.{other}"
             if other not in by_id:
-                raise InputError(file, key, other, f"a known stack id{_suggest(other, by_id)}")
+                raise InputError(file, key, other, f"a known stack id{did_you_mean(other, by_id)}")
             g.add_edge(s.id, other)
     try:
         cycle = nx.find_cycle(g)
@@ -800,14 +797,14 @@ def _exposure(file: str, key: str, value: object) -> str:
     for p in parts:
         if p not in EXPOSURE_CLASSES:
             raise InputError(file, key, value, "exposure classes of EN 1992-1-1 Table 4.1, "
-                             f"joined by '+' (e.g. 'XC3+XF1'){_suggest(p, EXPOSURE_CLASSES)}")
+                             f"joined by '+' (e.g. 'XC3+XF1'){did_you_mean(p, EXPOSURE_CLASSES)}")
     return "+".join(parts)
 
 
 def _fire(file: str, key: str, value: object) -> str:
     if value not in FIRE_RESISTANCES:
         raise InputError(file, key, value, f"one of {', '.join(FIRE_RESISTANCES)}"
-                         f"{_suggest(str(value), FIRE_RESISTANCES)}")
+                         f"{did_you_mean(str(value), FIRE_RESISTANCES)}")
     return str(value)
 
 
@@ -819,7 +816,7 @@ def _read_settings(top: _Table, levels: Sequence[Level], stack_ids: Sequence[str
         for k in t.data:
             if k not in _SETTING_KEYS:
                 raise InputError(t.file, t.key(k), t.data[k],
-                                 f"unknown key{_suggest(k, _SETTING_KEYS)} "
+                                 f"unknown key{did_you_mean(k, _SETTING_KEYS)} "
                                  f"(known keys here: {', '.join(_SETTING_KEYS)})")
         lv = t.raw("levels", required=False)
         st = t.raw("stacks", required=False)
@@ -967,7 +964,7 @@ def load_scenario_text(text: str, source: str = "<scenario>",
     for key in data:
         if key not in TOP_LEVEL_KEYS:
             raise InputError(source, key, data[key],
-                             f"a known top-level key{_suggest(key, TOP_LEVEL_KEYS)} "
+                             f"a known top-level key{did_you_mean(key, TOP_LEVEL_KEYS)} "
                              f"(known: {', '.join(TOP_LEVEL_KEYS)})")
     project = _read_project(top)
     pset, overrides, params = _read_parameters(top)

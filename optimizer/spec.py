@@ -9,7 +9,6 @@ the value.
 
 from __future__ import annotations
 
-import difflib
 import json
 import math
 import tomllib
@@ -21,7 +20,7 @@ from design.materials import Concrete, ConcreteLaw, Ductility, Reinforcement, To
 from design.params import NationalParameters, parameter_set, with_overrides
 from design.resistance import DesignSection
 from design.sections import CircBars, CircSection, RectBars, RectSection
-from optimizer.errors import InputError
+from optimizer.errors import InputError, reject_unknown_keys
 
 __all__ = ["SectionSpec", "load_spec_file", "section_spec", "check_keys", "number"]
 
@@ -73,12 +72,7 @@ def load_spec_file(path: str | Path) -> dict[str, Any]:
 
 def check_keys(path: str, where: str, data: dict, allowed: set[str]) -> None:
     """Raise an InputError for the first unknown key, suggesting the nearest allowed one."""
-    for key in data:
-        if key not in allowed:
-            close = difflib.get_close_matches(key, sorted(allowed), n=1)
-            hint = f"did you mean {close[0]!r}?" if close else f"expected one of {', '.join(sorted(allowed))}"
-            field = f"{where}.{key}" if where else key
-            raise InputError(path, field, data[key], f"unknown key; {hint}")
+    reject_unknown_keys(path, where, data, allowed)
 
 
 def number(path: str, field: str, value: Any, *, positive: bool = False, allow_zero: bool = True,

@@ -19,7 +19,6 @@ trade-off charts (PNG). See docs/studies.md.
 from __future__ import annotations
 
 import asyncio
-import difflib
 import hashlib
 import itertools
 import json
@@ -28,7 +27,7 @@ import os
 import socket
 import time
 import tomllib
-from collections.abc import Callable, Iterable
+from collections.abc import Callable
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
@@ -36,7 +35,7 @@ from typing import Any
 import pandas as pd
 
 from optimizer import CAUTION, __version__
-from optimizer.errors import InputError
+from optimizer.errors import InputError, did_you_mean
 from optimizer.scenario import Scenario, load_scenario_text
 
 __all__ = ["STUDY_VARIABLES", "MAX_VARIANTS", "Study", "StudyVariant", "StudyOutcome", "load_study",
@@ -134,11 +133,6 @@ class StudyOutcome:
 # Reading the study file
 
 
-def _suggest(word: str, options: Iterable[str]) -> str:
-    close = difflib.get_close_matches(word, list(options), n=1, cutoff=0.5)
-    return f"; did you mean {close[0]!r}?" if close else ""
-
-
 def _is_number(x: object) -> bool:
     return isinstance(x, (int, float)) and not isinstance(x, bool) and math.isfinite(x)
 
@@ -214,7 +208,7 @@ def load_study(path: str | Path) -> Study:
         if key not in _TOP_KEYS:
             if key in STUDY_VARIABLES:
                 raise InputError(file, key, data[key], "a study variable: put it under [vary]")
-            raise InputError(file, key, data[key], f"[study] or [vary]{_suggest(key, _TOP_KEYS)}")
+            raise InputError(file, key, data[key], f"[study] or [vary]{did_you_mean(key, _TOP_KEYS)}")
     head = data.get("study")
     if not isinstance(head, dict):
         raise InputError(file, "study", head, 'a [study] table with scenario = "BUILDING.toml"')
@@ -223,7 +217,7 @@ def load_study(path: str | Path) -> Study:
             if key in STUDY_VARIABLES:
                 raise InputError(file, f"study.{key}", head[key], "a study variable: put it under [vary]")
             raise InputError(file, f"study.{key}", head[key],
-                             f"one of {', '.join(_STUDY_KEYS)}{_suggest(key, _STUDY_KEYS)}")
+                             f"one of {', '.join(_STUDY_KEYS)}{did_you_mean(key, _STUDY_KEYS)}")
     scen = head.get("scenario")
     if not isinstance(scen, str) or not scen.strip():
         raise InputError(file, "study.scenario", scen, "the base scenario file, relative to the study file")
@@ -249,7 +243,8 @@ def load_study(path: str | Path) -> Study:
     for key in vary:
         if key not in STUDY_VARIABLES:
             raise InputError(file, f"vary.{key}", vary[key],
-                             f"a study variable{_suggest(key, STUDY_VARIABLES)} (known: {', '.join(STUDY_VARIABLES)})")
+                             f"a study variable{did_you_mean(key, STUDY_VARIABLES)} "
+                             f"(known: {', '.join(STUDY_VARIABLES)})")
     variables: dict[str, list[Any]] = {}
     for key in STUDY_VARIABLES:  # fixed order
         if key not in vary:

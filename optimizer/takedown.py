@@ -38,7 +38,7 @@ import shapely
 from shapely.geometry import LineString, MultiPoint, Point, Polygon, box
 from shapely.geometry.base import BaseGeometry
 
-from optimizer.errors import InputError
+from optimizer.errors import InputError, did_you_mean
 from optimizer.graph import build_stack_graph, carried_cells, load_order
 from optimizer.loads import (
     ALPHA_N_CATEGORIES,
@@ -56,7 +56,6 @@ from optimizer.scenario import (
     SupportKind,
     _exposure,
     _fire,
-    _suggest,
 )
 
 __all__ = [
@@ -711,7 +710,7 @@ def read_actions_csv(path: str | Path, scenario: Scenario) -> pd.DataFrame:
     for h in header:
         if h not in known:
             raise InputError(file, "row 1 (header)", h,
-                             f"a known column{_suggest(h, known)} (known: {', '.join(known)})")
+                             f"a known column{did_you_mean(h, known)} (known: {', '.join(known)})")
     if len(set(header)) != len(header):
         raise InputError(file, "row 1 (header)", header, "each column once")
     if any(k in header for k in K_COLUMNS) and not all(k in header for k in K_COLUMNS):
@@ -743,10 +742,10 @@ def _csv_cell(file: str, n: int, rec: Mapping[str, str], scenario: Scenario) -> 
     names = [lv.name for lv in scenario.levels]
     if stack not in ids:
         raise InputError(file, f"row {n}, column stack", stack,
-                         f"a stack of the scenario{_suggest(stack, ids)}")
+                         f"a stack of the scenario{did_you_mean(stack, ids)}")
     if level not in names:
         raise InputError(file, f"row {n}, column level", level,
-                         f"a level of the scenario{_suggest(level, names)}")
+                         f"a level of the scenario{did_you_mean(level, names)}")
     cid = CellId(stack, level)
     if not scenario.has_cell(cid):
         st = scenario.stack(stack)
