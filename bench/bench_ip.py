@@ -72,16 +72,18 @@ def tower_problem() -> ScheduleProblem:
     return replace(p, rules=replace(p.rules, min_run=3, price_per_type=150.0))
 
 
-def _size(notes: tuple[str, ...]) -> str:
+def _size(notes: tuple[str, ...]) -> tuple[str, str]:
+    """Model size and build time (seconds) from a schedule's notes."""
     for n in notes:
-        m = re.search(r"path formulation: (\d+) units .*?, (\d+) candidate rows", n)
+        m = re.search(r"path formulation: (\d+) units .*?, (\d+) candidate rows; tables in ([\d.]+) s", n)
         if m:
             paths = next((re.search(r"(\d+) paths", x) for x in notes if x.startswith("column generation")), None)
-            return f"{m.group(1)} units, {int(m.group(2)):,} rows, {paths.group(1) if paths else '?'} paths"
-        m = re.search(r"model: (\d+) binaries, \d+ continuous, (\d+) rows", n)
+            return (f"{m.group(1)} units, {int(m.group(2)):,} rows, {paths.group(1) if paths else '?'} paths",
+                    m.group(3))
+        m = re.search(r"model: (\d+) binaries, \d+ continuous, (\d+) rows, \d+ nonzeros; formulated in ([\d.]+) s", n)
         if m:
-            return f"{int(m.group(1)):,} binaries, {int(m.group(2)):,} rows"
-    return "-"
+            return f"{int(m.group(1)):,} binaries, {int(m.group(2)):,} rows", m.group(3)
+    return "-", "-"
 
 
 def run_case(name: str, make, runs: list[tuple[str, str]]) -> None:  # noqa: ANN001
@@ -102,19 +104,22 @@ def run_case(name: str, make, runs: list[tuple[str, str]]) -> None:  # noqa: ANN
         print(f"rule-of-thumb baseline: steel {fb.steel_kg:,.0f} kg, {fb.n_types} types ({fb.n_sections} sections), "
               f"objective {fb.objective:,.0f}, premium {(fb.steel_kg - lb.value) / lb.value:.1%} "
               f"({time.perf_counter() - t0:.1f} s)")
-    print(f"{'formulation':12} {'solver':6} {'model':>40} {'time s':>7} {'objective':>12} {'bound':>12} {'gap':>7} "
+    print(f"{'formulation':12} {'solver':6} {'model':>40} {'build s':>7} {'time s':>7} {'objective':>12} "
+          f"{'bound':>12} {'gap':>7} "
           f"{'types':>5} {'steel t':>8} {'premium':>8}  status")
     for form, solver in runs:
         t0 = time.perf_counter()
         s = optimise(p, solver, limit, 0.01, None, formulation=form)
         secs = time.perf_counter() - t0
         if s.cand is None or np.any(np.asarray(s.cand) < 0):
-            print(f"{form:12} {solver:6} {_size(s.notes):>40} {secs:7.1f} {'-':>12} {s.bound:12,.0f}  no schedule")
+            size, build = _size(s.notes)
+            print(f"{form:12} {solver:6} {size:>40} {build:>7} {secs:7.1f} {'-':>12} {s.bound:12,.0f}  no schedule")
             continue
         f = figures(p, s.cand)
         _, premium = lower_bound_premium(p, s)
         bad = check_schedule(p, s)
-        print(f"{form:12} {solver:6} {_size(s.notes):>40} {secs:7.1f} {s.objective:12,.0f} {s.bound:12,.0f} "
+        size, build = _size(s.notes)
+        print(f"{form:12} {solver:6} {size:>40} {build:>7} {secs:7.1f} {s.objective:12,.0f} {s.bound:12,.0f} "
               f"{s.gap:7.2%} {f.n_types:5d} {f.steel_kg / 1000:8.1f} {premium:8.1%}  {s.status}"
               + ("" if not bad else f"  CHECKER: {len(bad)} violations"))
         if base is not None:
