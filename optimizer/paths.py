@@ -60,7 +60,7 @@ def applicable(problem: ScheduleProblem) -> str | None:
     if not (r.monotone_sections and r.monotone_bars and r.monotone_grade):
         return "a monotone rule is off: a stack could use a type twice, so types cannot be charged on entry"
     if r.max_grade_changes is not None:
-        return "a cap on grade changes per stack is a resource inside each path (compact model used)"
+        return "a cap on grade changes per stack is a resource inside each path"
     if _Prepared(problem).problems:
         return "a group of stacks with different storeys"
     return None

@@ -21,7 +21,7 @@ from design.member import MemberChecks, SectionData
 from design.resistance import SectionBatch
 from optimizer import __version__
 from optimizer.catalogue import Catalogue, build_catalogue
-from optimizer.errors import DesignImpossible
+from optimizer.errors import DesignImpossible, InputError
 from optimizer.feasibility import Feasibility, _check, _settings_for, feasibility, to_problem
 from optimizer.problem import Schedule, ScheduleProblem
 from optimizer.scenario import Scenario, load_scenario
@@ -151,6 +151,13 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
     t = time.perf_counter()
     problem = to_problem(fe, scenario, settings)
     opts = settings.solver
+    if (formulation or opts.formulation) == "paths":
+        from optimizer.paths import applicable
+
+        why = applicable(problem)
+        if why is not None:
+            raise InputError(path, "--formulation" if formulation else "optimizer.formulation", "paths",
+                             f"'auto' or 'compact' for this scenario: {why}")
     schedule = optimise(problem, solver or opts.solver, time_limit_s or opts.time_limit_s, opts.gap_rel, max_types,
                         progress=lambda msg: say(f"integer program: {msg}", 0, 0),
                         formulation=formulation or opts.formulation)

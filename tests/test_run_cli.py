@@ -69,3 +69,23 @@ def test_bad_rules_exit_2(tmp_path, capsys, rules):
     assert main(["optimize", str(bad), "--out", str(tmp_path / "o"), "--quiet"]) == 2
     err = capsys.readouterr().err.strip()
     assert "bad.toml" in err and len(err.splitlines()) == 1
+
+
+@pytest.mark.parametrize("where", ["flag", "scenario"])
+def test_path_formulation_asked_where_it_does_not_apply_exit_2(tmp_path, capsys, where):
+    """A cap on grade changes per stack is a resource inside each path: the path formulation cannot be used,
+    and asking for it (flag or scenario key) is a clean input error naming the reason, not a traceback."""
+    text = (SCEN / "small_building.toml").read_text(encoding="utf-8")
+    extra = "\n[rules]\nmax_grade_changes = 0\n" if "[rules]" not in text else ""
+    text = text.replace("[rules]\n", "[rules]\nmax_grade_changes = 0\n", 1) + extra
+    if where == "scenario":
+        text = (text.replace("[optimizer]\n", '[optimizer]\nformulation = "paths"\n', 1) if "[optimizer]" in text
+                else text + '\n[optimizer]\nformulation = "paths"\n')
+    bad = tmp_path / "gc.toml"
+    bad.write_text(text, encoding="utf-8")
+    args = ["optimize", str(bad), "--out", str(tmp_path / "o"), "--quiet"]
+    assert main(args + (["--formulation", "paths"] if where == "flag" else [])) == 2
+    err = capsys.readouterr().err.strip()
+    assert len(err.splitlines()) == 1 and "gc.toml" in err and "grade changes" in err
+    assert ("--formulation" if where == "flag" else "optimizer.formulation") in err
+    assert not (tmp_path / "o").exists()
