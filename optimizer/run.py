@@ -194,8 +194,9 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
         more = f" and {unverified.size - 8} more" if unverified.size > 8 else ""
         warnings.append(f"fire resistance not verified by EN 1992-1-2 5.3.2 method A in {unverified.size} cell(s) "
                         f"(outside its conditions of use; verify by another method): {names}{more}")
-    if schedule.status != "optimal":
-        warnings.append(f"solver stopped with status '{schedule.status}': proven gap {100 * schedule.gap:.2f} %")
+    if schedule.status not in ("optimal", "within gap"):
+        warnings.append(f"solver stopped with status '{schedule.status}': proven gap {100 * schedule.gap:.2f} % "
+                        f"(requested {100 * opts.gap_rel:g} %)")
     notes = list(td.notes) if td is not None else ["actions from an analysis (CSV route)"]
     notes += [
         "Lateral stability is assumed to be provided by the cores: every column is checked as braced "
