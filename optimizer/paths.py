@@ -51,8 +51,6 @@ from optimizer.problem import Schedule, ScheduleProblem
 
 __all__ = ["applicable", "PathModel", "solve_paths", "min_counts"]
 
-_TOL = 1e-9
-
 
 def applicable(problem: ScheduleProblem) -> str | None:
     """Why the path formulation cannot be used for this problem (None when it can)."""
@@ -631,8 +629,9 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
                     master.add(c)  # type: ignore[arg-type]
                 if v < state.value:
                     state.value, state.columns = v, cols  # type: ignore[assignment]
+        # every schedule costs at least its units' own optima plus one type and one section
         state.bound = sum(col.cost for col in free_cols.values()) + (
-            min(counting.price_t, counting.price_t) * counting.types + counting.price_s * counting.sections)
+            counting.price_t * counting.types + counting.price_s * counting.sections)
         capped = counting.cap_t is not None or counting.cap_s is not None or counting.cap_g is not None
         if capped and state.columns is None:
             need_t, need_g = min_counts(model, pool)
