@@ -983,7 +983,8 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
             start = np.asarray(warm_start.cand) if warm_start is not None else None
             if start is None and (cap_t is not None or r.max_sections is not None or r.max_grades is not None):
                 start = _capped_start(problem, cap_t, time_limit_s)
-            return paths.solve_paths(problem, solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel,
+            left = max(1.0, time_limit_s - (time.perf_counter() - t_all))
+            return paths.solve_paths(problem, solver=solver, time_limit_s=left, gap_rel=gap_rel,
                                      max_types=max_types, warm_start=start, progress=say, threads=threads)
         if method == "paths":
             raise ValueError(f"the path formulation does not apply: {why}")

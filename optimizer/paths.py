@@ -670,47 +670,53 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
         last_slack = np.inf
         center: tuple[dict[int, np.ndarray], dict[int, np.ndarray]] | None = None
         smooth = 0.5  # weight of the stability centre in the pricing duals (Wentges smoothing)
-        while True:
-            rounds += 1
-            lp_value, duals, rows_lp, x_lp = master.solve_lp(threads)
-            pen_lp, gpen_lp, alpha = master.penalties(duals, rows_lp)
-            integral = _integral_columns(master, rows_lp, x_lp)
-            if integral is not None:  # the relaxation chose one whole path per unit: a schedule
-                v = _schedule_value(model, counting, integral)
-                if v < state.value - 1e-9 and counting.allows(problem, {t for c in integral.values()
-                                                                        for t in c.types}):
-                    state.value, state.columns = v, integral
-            added = 0
-            for mix in ((smooth, 0.0) if center is not None else (0.0,)):
-                if mix > 0.0 and center is not None:
-                    pen = {u: mix * center[0][u] + (1.0 - mix) * pen_lp[u] for u in model.units}
-                    gpen = {u: mix * center[1][u] + (1.0 - mix) * gpen_lp[u] for u in model.units}
-                else:
-                    pen, gpen = pen_lp, gpen_lp
-                priced = list(pool.map(lambda u, pen=pen, gpen=gpen: model.price(u, pen[u], gpen[u]), model.units))
-                lagr = sum(val for val, _ in priced) + _y_part(model, counting, pen, gpen)
-                if lagr > state.bound:
-                    state.bound = lagr
-                    center = (pen, gpen)
-                for u, (_, col) in zip(model.units, priced, strict=True):
-                    if col is None:
-                        continue
-                    rc = col.cost - alpha[u] + sum(pen_lp[u][t] for t in col.types) + sum(
-                        gpen_lp[u][g] for g in col.grades)
-                    if rc < -1e-7 * scale and master.add(col):
-                        added += 1
-                if added:
-                    break  # otherwise the smoothed duals mispriced: price again at the relaxation's own
-            gap_lp = (lp_value - state.bound) / max(abs(lp_value), 1e-9)
-            say(f"round {rounds}: relaxation {lp_value:.6g}, bound {state.bound:.6g}, {added} paths added, "
-                f"{model.n_rows} rows")
-            converged = added == 0
-            if added == 0 or gap_lp < max(1e-6, gap_rel / 20) or time.perf_counter() > cg_deadline:
-                break
-            slack = state.value - state.bound
-            if np.isfinite(slack) and slack < 0.5 * last_slack and center is not None:
-                _prune(model, master, center[0], center[1], state, pool, notes, say)
-                last_slack = slack
+
+        def generate(until: float) -> None:
+            """Rounds of column generation until the relaxation meets the bound, nothing prices out, or ``until``."""
+            nonlocal rounds, lp_value, x_lp, rows_lp, converged, last_slack, center
+            while True:
+                rounds += 1
+                lp_value, duals, rows_lp, x_lp = master.solve_lp(threads)
+                pen_lp, gpen_lp, alpha = master.penalties(duals, rows_lp)
+                integral = _integral_columns(master, rows_lp, x_lp)
+                if integral is not None:  # the relaxation chose one whole path per unit: a schedule
+                    v = _schedule_value(model, counting, integral)
+                    if v < state.value - 1e-9 and counting.allows(problem, {t for c in integral.values()
+                                                                            for t in c.types}):
+                        state.value, state.columns = v, integral
+                added = 0
+                for mix in ((smooth, 0.0) if center is not None else (0.0,)):
+                    if mix > 0.0 and center is not None:
+                        pen = {u: mix * center[0][u] + (1.0 - mix) * pen_lp[u] for u in model.units}
+                        gpen = {u: mix * center[1][u] + (1.0 - mix) * gpen_lp[u] for u in model.units}
+                    else:
+                        pen, gpen = pen_lp, gpen_lp
+                    priced = list(pool.map(lambda u, pen=pen, gpen=gpen: model.price(u, pen[u], gpen[u]), model.units))
+                    lagr = sum(val for val, _ in priced) + _y_part(model, counting, pen, gpen)
+                    if lagr > state.bound:
+                        state.bound = lagr
+                        center = (pen, gpen)
+                    for u, (_, col) in zip(model.units, priced, strict=True):
+                        if col is None:
+                            continue
+                        rc = col.cost - alpha[u] + sum(pen_lp[u][t] for t in col.types) + sum(
+                            gpen_lp[u][g] for g in col.grades)
+                        if rc < -1e-7 * scale and master.add(col):
+                            added += 1
+                    if added:
+                        break  # otherwise the smoothed duals mispriced: price again at the relaxation's own
+                gap_lp = (lp_value - state.bound) / max(abs(lp_value), 1e-9)
+                say(f"round {rounds}: relaxation {lp_value:.6g}, bound {state.bound:.6g}, {added} paths added, "
+                    f"{model.n_rows} rows")
+                converged = added == 0
+                if added == 0 or gap_lp < max(1e-6, gap_rel / 20) or time.perf_counter() > until:
+                    break
+                slack = state.value - state.bound
+                if np.isfinite(slack) and slack < 0.5 * last_slack and center is not None:
+                    _prune(model, master, center[0], center[1], state, pool, notes, say)
+                    last_slack = slack
+
+        generate(cg_deadline)
         notes.append(f"column generation: {rounds} rounds, {len(master.columns)} paths, relaxation {lp_value:.6g}, "
                      f"bound {state.bound:.6g} in {time.perf_counter() - t_cg:.1f} s")
         say(notes[-1])
@@ -722,6 +728,15 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
         if rows_lp is not None and rows_lp.y:
             support = sorted(rows_lp.y, key=lambda t: -x_lp[rows_lp.y[t]])
             support = [t for t in support if x_lp[rows_lp.y[t]] > 1e-6][:40]
+        # under a cap with no schedule yet: small type sets from the relaxation's support, each unit re-routed
+        if state.columns is None and counting.cap_t is not None and support:
+            found = _support_sets(model, counting, support, pool, deadline)
+            if found is not None:
+                state.value, state.columns = _schedule_value(model, counting, found), found
+                for col in found.values():
+                    master.add(col)
+                notes.append(f"schedule from a type set of the relaxation's support: {state.value:.6g}")
+                say(notes[-1])
         # integer master, then local search, repeated while time remains and the gap is open
         for attempt in range(3):
             if attempt > 0 and state.columns is not None and _gap(state) <= gap_rel:
@@ -729,6 +744,11 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
             remaining = deadline - time.perf_counter()
             if remaining < 1.0:
                 break
+            if attempt > 0 and not converged:  # more paths (and a better bound) before the next integer master
+                generate(time.perf_counter() + 0.5 * remaining)
+                remaining = deadline - time.perf_counter()
+                if state.columns is not None and _gap(state) <= gap_rel:
+                    break
             cols = _integer_master(master, state, solver, min(remaining * 0.5, remaining - 0.5), gap_rel, threads,
                                    _solve_highspy, _solve_pulp, notes)
             say(notes[-1])
@@ -745,8 +765,8 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
             v = _schedule_value(model, counting, cols)
             if v < state.value - 1e-9:
                 state.value, state.columns = v, cols
-            else:
-                break
+            elif converged:
+                break  # nothing left to try: no new paths, no better schedule
             say(f"schedule {state.value:.6g}, bound {state.bound:.6g}, gap {_gap(state):.2%}")
     finally:
         pool.shutdown()
@@ -919,6 +939,35 @@ def min_counts(model: PathModel, pool: ThreadPoolExecutor) -> tuple[dict[int, in
     grades = list(pool.map(lambda u: model.price(u, zero_t, ones_g, weights=False)[0], model.units))
     return ({u: round(v) for u, v in zip(model.units, types, strict=True) if np.isfinite(v)},
             {u: round(v) for u, v in zip(model.units, grades, strict=True) if np.isfinite(v)})
+
+
+def _support_sets(model: PathModel, counting: _Counting, support: list[int], pool: ThreadPoolExecutor,
+                  deadline: float, max_sets: int = 200) -> dict[int, _Column] | None:
+    """The best schedule whose types are at most ``cap`` of the relaxation's most used types (every unit re-routed).
+
+    All subsets of the ``cap + 6`` most used types when there are at most ``max_sets`` of them, else the most
+    used ``cap`` types alone; a subset with a unit that cannot be built from it is skipped.
+    """
+    import itertools
+    import math
+
+    k = int(counting.cap_t)
+    top = support[:k + 6]
+    sets = (list(itertools.combinations(top, min(k, len(top)))) if math.comb(len(top), min(k, len(top))) <= max_sets
+            else [tuple(top[:k])])
+    best: tuple[float, dict[int, _Column]] | None = None
+    for chosen in sets:
+        if time.perf_counter() > deadline:
+            break
+        if not counting.allows(model.problem, set(chosen)):
+            continue
+        routed = _reroute(model, set(chosen), model.units, pool)
+        if routed is None:
+            continue
+        v = _schedule_value(model, counting, routed)
+        if best is None or v < best[0]:
+            best = (v, routed)
+    return best[1] if best is not None else None
 
 
 def _integral_columns(master: _Master, rows: _MasterRows, x: np.ndarray) -> dict[int, _Column] | None:
