@@ -244,10 +244,7 @@ class _Prepared:
             members = [index[g] for g in group if g in index]
             if len(members) < 2:
                 continue
-            levels = [tuple(p.cell_names[c][1] for c in self.chains[s]) for s in members]
-            if any(lv != levels[0] for lv in levels):
-                problems.append(f"group {', '.join(group)}: stacks with different storeys are not handled "
-                                "by the heuristic")
+            problems += group_problems(p, self.chains, [group])
             in_group.update(members)
             cells = np.stack([self.chains[s] for s in members], axis=1) if not problems else None
             if cells is not None:
@@ -286,6 +283,19 @@ class _Prepared:
 # --------------------------------------------------------------------------------------------
 # one stack: networkx layered graph and numpy dynamic program
 # --------------------------------------------------------------------------------------------
+
+
+def group_problems(problem: ScheduleProblem, chains: list[np.ndarray],
+                   groups: tuple[tuple[str, ...], ...] | list[tuple[str, ...]] | None = None) -> list[str]:
+    """Groups of stacks the shortest paths cannot treat as one unit (stacks with different storeys), in words."""
+    index = {name: i for i, name in enumerate(problem.stack_names)}
+    out = []
+    for group in problem.rules.groups if groups is None else groups:
+        members = [index[g] for g in group if g in index]
+        levels = [tuple(problem.cell_names[c][1] for c in chains[s]) for s in members]
+        if len(members) >= 2 and any(lv != levels[0] for lv in levels):
+            out.append(f"group {', '.join(group)}: stacks with different storeys are not handled by the heuristic")
+    return out
 
 
 def _run_states(problem: ScheduleProblem) -> int:
@@ -450,17 +460,12 @@ def stack_dp(problem: ScheduleProblem, stack: int,
 
 def _unit_dp(prep: _Prepared, unit: _Unit, allowed: np.ndarray | None) -> tuple[float, np.ndarray | None]:
     """Best orientation and path of a unit; the path is the candidate per level of the unit's first stack."""
-    m = _run_states(prep.problem)
-    best: tuple[float, np.ndarray | None] = (np.inf, None)
-    for levels in unit.orients.values():
-        cost, rows = _levels_dp(prep.problem, levels, m, allowed)
-        if rows is not None and cost < best[0]:
-            best = (cost, np.array([levels[i].cands[k, 0] for i, k in enumerate(rows)], dtype=int))
-    return best
+    cost, mat = _unit_paths(prep, unit, allowed)
+    return cost, (mat[:, 0].astype(int) if mat is not None else None)
 
 
 def _unit_paths(prep: _Prepared, unit: _Unit, allowed: np.ndarray | None) -> tuple[float, np.ndarray | None]:
-    """Like :func:`_unit_dp` but returns the candidates of every cell of the unit (n_levels x n_stacks)."""
+    """Best orientation and path of a unit: the candidates of every cell of the unit (n_levels x n_stacks)."""
     m = _run_states(prep.problem)
     best: tuple[float, np.ndarray | None] = (np.inf, None)
     for levels in unit.orients.values():

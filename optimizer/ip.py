@@ -982,7 +982,8 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
         if why is None:
             start = np.asarray(warm_start.cand) if warm_start is not None else None
             if start is None and (cap_t is not None or r.max_sections is not None or r.max_grades is not None):
-                start = _capped_start(problem, cap_t, time_limit_s)
+                heur = greedy_start(problem, cap_t, time_limit_s)
+                start = heur.cand if heur is not None else None
             left = max(1.0, time_limit_s - (time.perf_counter() - t_all))
             return paths.solve_paths(problem, solver=solver, time_limit_s=left, gap_rel=gap_rel,
                                      max_types=max_types, warm_start=start, progress=say, threads=threads)
@@ -997,10 +998,8 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
             notes.append("warm start ignored: it breaks a rule of this problem")
     else:
         t0 = time.perf_counter()
-        big = len(problem.cand_cell) > 200 * max(1, problem.n_cells) or len(problem.cand_cell) > 1_000_000
-        heur = rationalise(problem, max_types=cap_t, time_limit_s=max(5.0, 0.25 * time_limit_s),
-                           per_cell=40 if big else None)
-        if heur is not None and not _breaks_rules(problem, heur.cand):
+        heur = greedy_start(problem, cap_t, time_limit_s)
+        if heur is not None:
             incumbent = heur.cand
             say(f"greedy warm start {heur.objective:.6g} in {time.perf_counter() - t0:.1f} s")
             notes.append(f"warm start (greedy type reduction): {heur.objective:.6g}")
@@ -1086,12 +1085,17 @@ def _breaks_rules(problem: ScheduleProblem, cand: np.ndarray) -> bool:
     return bool(check_schedule(problem, np.asarray(cand)))
 
 
-def _capped_start(problem: ScheduleProblem, cap_t: int | None, time_limit_s: float) -> np.ndarray | None:
-    """A schedule within the caps from the greedy type reduction (on the lightest candidates when there are many)."""
+def greedy_start(problem: ScheduleProblem, cap_t: int | None, time_limit_s: float,
+                 share: float = 0.25) -> Schedule | None:
+    """The greedy rationalised schedule (on the lightest candidates when there are many), if it keeps every rule.
+
+    It gets ``share`` of the time limit (at least 5 s). The greedy stage does not know every rule (e.g. grade
+    caps); a schedule that breaks one is not returned, since as an incumbent it would prune every valid one.
+    """
     big = len(problem.cand_cell) > 200 * max(1, problem.n_cells) or len(problem.cand_cell) > 1_000_000
-    heur = rationalise(problem, max_types=cap_t, time_limit_s=max(5.0, 0.25 * time_limit_s),
+    heur = rationalise(problem, max_types=cap_t, time_limit_s=max(5.0, share * time_limit_s),
                        per_cell=40 if big else None)
-    return heur.cand if heur is not None and not _breaks_rules(problem, heur.cand) else None
+    return heur if heur is not None and not _breaks_rules(problem, heur.cand) else None
 
 
 def _figure_notes(fig) -> tuple[str, ...]:  # noqa: ANN001
@@ -1150,4 +1154,4 @@ def lower_bound_premium(problem: ScheduleProblem, schedule: Schedule) -> tuple[f
     return lb, (base - lb) / lb if lb > 0 else np.inf
 
 
-__all__ += ["lower_bound_premium", "step_per_face"]
+__all__ += ["lower_bound_premium", "step_per_face", "greedy_start"]

@@ -46,7 +46,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from optimizer import stackdp
-from optimizer.heuristic import _Prepared, _run_states, figures, transition
+from optimizer.heuristic import _Prepared, _run_states, figures, group_problems, stack_chains, transition
 from optimizer.problem import Schedule, ScheduleProblem
 
 __all__ = ["applicable", "PathModel", "solve_paths", "min_counts"]
@@ -59,7 +59,7 @@ def applicable(problem: ScheduleProblem) -> str | None:
         return "a monotone rule is off: a stack could use a type twice, so types cannot be charged on entry"
     if r.max_grade_changes is not None:
         return "a cap on grade changes per stack is a resource inside each path"
-    if _Prepared(problem).problems:
+    if group_problems(problem, stack_chains(problem)):
         return "a group of stacks with different storeys"
     return None
 
@@ -587,7 +587,7 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
     Returns:
         The schedule with status, objective (recomputed from the problem), bound and proven gap.
     """
-    from optimizer.ip import Status, _figure_notes, _solve_highspy, _solve_pulp
+    from optimizer.ip import Status, _figure_notes
 
     say = progress or (lambda _m: None)
     t_all = time.perf_counter()
@@ -750,7 +750,7 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
                 if state.columns is not None and _gap(state) <= gap_rel:
                     break
             cols = _integer_master(master, state, solver, min(remaining * 0.5, remaining - 0.5), gap_rel, threads,
-                                   _solve_highspy, _solve_pulp, notes)
+                                   notes)
             say(notes[-1])
             if cols is not None:
                 v = _schedule_value(model, counting, cols)
@@ -1005,31 +1005,43 @@ def _prune(model: PathModel, master: _Master, pen: dict[int, np.ndarray], gpen: 
     say(notes[-1])
 
 
+def _master_start(master: _Master, state: _State, form) -> np.ndarray | None:  # noqa: ANN001
+    """Column values of the incumbent in the integer master (None when one of its paths is not a column)."""
+    if state.columns is None:
+        return None
+    index = {id(col): i for i, col in enumerate(master.columns)}
+    if any(id(c) not in index for c in state.columns.values()):
+        return None
+    chosen = {index[id(c)] for c in state.columns.values()}
+    types = {t for c in state.columns.values() for t in c.types}
+    t_ = master.model.problem.types
+    start = np.zeros(form.n_cols)
+    for j, meta in enumerate(form.col_meta):
+        if meta[0] == "lam":
+            start[j] = float(meta[1] in chosen)
+        elif meta[0] == "y":
+            start[j] = float(meta[1] in types)
+        elif meta[0] == "sec":
+            start[j] = float(any(int(t_.section[t]) == meta[1] for t in types))
+        elif meta[0] == "g":
+            start[j] = float(any(int(master.model.gid[t]) == meta[1] for t in types))
+    return start
+
+
 def _integer_master(master: _Master, state: _State, solver: str, limit: float, gap_rel: float, threads: int | None,
-                    solve_highspy, solve_pulp, notes: list[str]) -> dict[int, _Column] | None:  # noqa: ANN001
+                    notes: list[str]) -> dict[int, _Column] | None:
     """The master with binary variables over the generated paths; the chosen column of every unit."""
-    form, rows = master.formulation(integer=True)
-    start = None
-    if state.columns is not None:
-        chosen = {id(c) for c in state.columns.values()}
-        if all(any(c is col for col in master.columns) for c in state.columns.values()):
-            start = np.zeros(form.n_cols)
-            types = {t for c in state.columns.values() for t in c.types}
-            for j, meta in enumerate(form.col_meta):
-                if meta[0] == "lam":
-                    start[j] = 1.0 if id(master.columns[meta[1]]) in chosen else 0.0
-                elif meta[0] == "y":
-                    start[j] = 1.0 if meta[1] in types else 0.0
-                elif meta[0] == "sec":
-                    start[j] = 1.0 if any(int(master.model.problem.types.section[t]) == meta[1] for t in types) else 0.0
-                elif meta[0] == "g":
-                    start[j] = 1.0 if any(int(master.model.gid[t]) == meta[1] for t in types) else 0.0
+    from optimizer.ip import _solve_highspy as solve_highspy
+    from optimizer.ip import _solve_pulp as solve_pulp
+
+    form, _ = master.formulation(integer=True)
     if solver == "highs":
         # no start handed to HiGHS here: with highspy 1.16 a start made it report the start as optimal with an
         # objective that was not the start's (measured on the demo tower); the master is small enough without
         out = solve_highspy(form, None, limit, gap_rel * 0.1, threads)
     else:
-        out = solve_pulp(master.model.problem, form, start, "cbc", limit, gap_rel * 0.1, threads)
+        out = solve_pulp(master.model.problem, form, _master_start(master, state, form), "cbc", limit,
+                         gap_rel * 0.1, threads)
     notes.append(f"integer master: {form.n_binaries} binaries, {form.n_rows} rows; {out.status.value} in "
                  f"{out.seconds:.1f} s, value {out.objective:.6g}")
     if out.xval is None:

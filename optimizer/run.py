@@ -269,31 +269,18 @@ def optimise(problem: ScheduleProblem, solver: str, time_limit_s: float, gap_rel
     if not coupled:
         return ip.solve(problem, solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel, max_types=max_types,
                         progress=say)
-    capped = cap is not None or r.max_sections is not None or r.max_grades is not None
     if formulation != "compact":
         from optimizer import paths
 
         why = paths.applicable(problem)
-        if why is None:
-            start = None
-            if capped:
-                start = ip._capped_start(problem, cap, time_limit_s)
-                say(f"greedy schedule within the caps in {time.perf_counter() - t0:.1f} s")
-            left = max(1.0, time_limit_s - (time.perf_counter() - t0))
-            return paths.solve_paths(problem, solver=solver, time_limit_s=left, gap_rel=gap_rel, max_types=max_types,
-                                     warm_start=start, progress=say)
+        if why is None:  # the same route as ip.solve: greedy start under caps, then column generation
+            return ip.solve(problem, solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel, max_types=max_types,
+                            progress=say, method="paths")
         if formulation == "paths":
             raise ValueError(f"the path formulation does not apply: {why}")
         say(f"compact formulation: {why}")
-    big = len(problem.cand_cell) > 200 * max(1, problem.n_cells)
-    warm = heuristic.rationalise(problem, max_types=cap, time_limit_s=max(5.0, 0.3 * time_limit_s),
-                                 per_cell=40 if big else None)
+    warm = ip.greedy_start(problem, cap, time_limit_s, share=0.3)
     lb = heuristic.cellwise_lower_bound(problem).value
-    if warm is not None:
-        from optimizer.schedule_check import check_schedule
-
-        if check_schedule(problem, warm):  # the greedy stage does not know every rule (e.g. grade caps)
-            warm = None
     if warm is not None:
         fig = heuristic.figures(problem, warm.cand)
         say(f"greedy rationalised schedule {fig.objective:.6g} in {time.perf_counter() - t0:.1f} s")
