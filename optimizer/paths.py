@@ -482,6 +482,13 @@ class _State:
     bound: float = -np.inf
 
 
+def _no_schedule(problem: ScheduleProblem, status: str, bound: float, solver: str, t_all: float,
+                 notes: list[str]) -> Schedule:
+    """A result without a schedule (infeasible, or nothing found in time)."""
+    return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=status, objective=np.inf, bound=bound,
+                    gap=np.inf, solver=solver, seconds=time.perf_counter() - t_all, notes=tuple(notes))
+
+
 def _unit_name(model: PathModel, ui: int) -> str:
     return ", ".join(model.problem.stack_names[s] for s in model.prep.units[ui].stacks)
 
@@ -609,10 +616,8 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
         # unit optima (no coupling): first columns and the first bound
         first = list(pool.map(lambda u: model.price(u, zero_t, zero_g), model.units))
         if any(col is None for _, col in first):
-            return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=Status.INFEASIBLE.value,
-                            objective=np.inf, bound=np.inf, gap=np.inf, solver="path formulation",
-                            seconds=time.perf_counter() - t_all,
-                            notes=("a stack has no buildable path (see optimizer.diagnose)",))
+            return _no_schedule(problem, Status.INFEASIBLE.value, np.inf, "path formulation", t_all,
+                                ["a stack has no buildable path (see optimizer.diagnose)"])
         free_cols = {u: col for u, (_, col) in zip(model.units, first, strict=True)}
         scale = max(1.0, sum(col.cost for col in free_cols.values()))
         master = _Master(model, counting, big_m=10.0 * scale + 1e6)
@@ -645,9 +650,7 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
                 why.append(f"stack {_unit_name(model, u_g)} cannot be built with fewer than {need_g[u_g]} concrete "
                            f"grades (cap {counting.cap_g})")
             if why:
-                return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=Status.INFEASIBLE.value,
-                                objective=np.inf, bound=np.inf, gap=np.inf, solver="path formulation",
-                                seconds=time.perf_counter() - t_all, notes=tuple(notes + why))
+                return _no_schedule(problem, Status.INFEASIBLE.value, np.inf, "path formulation", t_all, notes + why)
             t1 = time.perf_counter()
             ok = _phase_one(model, master, pool, t_all + 0.3 * time_limit_s)
             notes.append(f"phase one (paths within the caps): {ok} in {time.perf_counter() - t1:.1f} s, "
@@ -656,9 +659,7 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
             if ok is False:
                 notes.append("the caps cannot be met: even a mixture of all buildable paths breaks them "
                              "(see optimizer.diagnose)")
-                return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=Status.INFEASIBLE.value,
-                                objective=np.inf, bound=np.inf, gap=np.inf, solver="path formulation",
-                                seconds=time.perf_counter() - t_all, notes=tuple(notes))
+                return _no_schedule(problem, Status.INFEASIBLE.value, np.inf, "path formulation", t_all, notes)
         # column generation
         t_cg = time.perf_counter()
         cg_deadline = t_all + 0.6 * time_limit_s
@@ -776,9 +777,7 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
         # the relaxation over all paths needs the cap slack: no schedule keeps the caps
         notes.append("the caps cannot be met: the relaxation over all paths needs the cap slack "
                      "(see optimizer.diagnose)")
-        return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=Status.INFEASIBLE.value,
-                        objective=np.inf, bound=np.inf, gap=np.inf, solver=label,
-                        seconds=time.perf_counter() - t_all, notes=tuple(notes))
+        return _no_schedule(problem, Status.INFEASIBLE.value, np.inf, label, t_all, notes)
     gap = _gap(state) if state.columns is not None else np.inf
     remaining = deadline - time.perf_counter()
     if gap > gap_rel and remaining > 1.0 and len(problem.cand_cell) <= _FINISH_MAX_CANDIDATES:
@@ -787,9 +786,7 @@ def solve_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: f
                                t_all)
     secs = time.perf_counter() - t_all
     if state.columns is None:
-        return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=Status.NO_SCHEDULE.value,
-                        objective=np.inf, bound=state.bound, gap=np.inf, solver=label, seconds=secs,
-                        notes=tuple(notes))
+        return _no_schedule(problem, Status.NO_SCHEDULE.value, state.bound, label, t_all, notes)
     cand = model.assemble(state.columns)
     fig = figures(problem, cand)
     bound = min(state.bound, fig.objective)
