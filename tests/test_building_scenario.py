@@ -99,7 +99,7 @@ def expect_error(text, field_part, value_part=None):
 def test_base_scenario_loads_into_frozen_dataclasses():
     s = load()
     assert s.project.name.endswith("(invented)")
-    assert s.materials.fck_MPa == 30.0  # C30/37, EN 1992-1-1 Table 3.1
+    assert s.materials.fck_MPa == pytest.approx(30.0)  # C30/37, EN 1992-1-1 Table 3.1
     assert [lv.name for lv in s.levels] == ["L1", "L2", "L3"]
     # Elevations: 0, 4.0, 7.5; clear height 3.5 - 0.25 = 3.25 m.
     assert [lv.elevation_m for lv in s.levels] == [0.0, 4.0, 7.5]
@@ -109,7 +109,7 @@ def test_base_scenario_loads_into_frozen_dataclasses():
     assert s.stack("S3").carried_by == (("S1", 0.5), ("S2", 0.5))
     assert s.takedown.combination is Combination.EQ_6_10
     assert s.takedown.imposed_reduction is ImposedReduction.NONE
-    assert s.floor_at("L2").category is Category.B and s.floor_at("L2").psi0 == 0.7
+    assert s.floor_at("L2").category is Category.B and s.floor_at("L2").psi0 == pytest.approx(0.7)
     assert len(s.cells) == 8 and [c.index for c in s.cells] == list(range(8))
     assert s.cells[0].id == CellId("S1", "L1")
     # l0 = 1.0 x clear height = 3750 mm at L1.
@@ -135,10 +135,10 @@ def test_settings_cascade_and_zones():
     s = load(text)
     c = s.cell(("S1", "L1")).settings
     assert c.exposure == "XC3" and c.fire == "R60"
-    assert c.effective_length.k1z == 0.3 and c.effective_length.l0y_factor is None
-    assert c.fck_MPa == 40.0 and c.concrete == "C40/50"
+    assert c.effective_length.k1z == pytest.approx(0.3) and c.effective_length.l0y_factor is None
+    assert c.fck_MPa == pytest.approx(40.0) and c.concrete == "C40/50"
     assert s.cell(("S2", "L1")).settings.exposure == "XC1"
-    assert s.cell(("S2", "L2")).settings.fck_MPa == 30.0
+    assert s.cell(("S2", "L2")).settings.fck_MPa == pytest.approx(30.0)
 
 
 # ----------------------------------------------------------------------------- bad scenarios
@@ -299,7 +299,7 @@ def test_missing_file(tmp_path):
 
 def test_parameter_overrides():
     s = load(BASE.replace('set = "EN"', 'set = "EN"\noverrides = { xi = 0.925 }'))
-    assert s.params.xi == 0.925
+    assert s.params.xi == pytest.approx(0.925)
     expect_error(BASE.replace('set = "EN"', 'set = "EN"\noverrides = { gama_G = 1.2 }'),
                  "parameters.overrides")
 

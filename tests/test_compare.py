@@ -44,7 +44,7 @@ def test_compare_writes_every_file(compared, capsys):
     assert list(table["variant"]) == ["C30/37", "C40/50"]
     assert list(table["grades_used"]) == ["C30/37", "C40/50"]
     xl = pd.read_excel(out / "compare.xlsx", sheet_name="Comparison")
-    assert list(xl["variant"]) == ["C30/37", "C40/50"] and xl["steel_t"].tolist() == table["steel_t"].tolist()
+    assert list(xl["variant"]) == ["C30/37", "C40/50"] and xl["steel_t"].tolist() == pytest.approx(table["steel_t"].tolist())
     # the sentence in the text file follows from the table's own figures
     a, b = table.set_index("variant").loc["C40/50"], table.set_index("variant").loc["C30/37"]
     d = 100 * (a["steel_t"] - b["steel_t"]) / b["steel_t"]

@@ -59,8 +59,8 @@ def test_analysis_scenario_fills_blanks_from_settings(analysis):
     assert row["l0y_mm"] == pytest.approx(2656.25)
     assert row["exposure"] == "XC1"
     row = df[(df["stack"] == "K1") & (df["level"] == "G1")].iloc[0]
-    assert row["l0y_mm"] == 3700.0 and row["exposure"] == "XC3"
-    assert row["My_bot_kNm"] == -12.4  # signs kept: double curvature
+    assert row["l0y_mm"] == pytest.approx(3700.0) and row["exposure"] == "XC3"
+    assert row["My_bot_kNm"] == pytest.approx(-12.4)  # signs kept: double curvature
 
 
 def _expect(tmp_path, scenario, lines, field_part, value_part=None):
