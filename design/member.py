@@ -32,6 +32,7 @@ ends = single curvature).
 
 from __future__ import annotations
 
+import dataclasses
 import functools
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
@@ -47,7 +48,7 @@ from design.cover import ExposureClass
 from design.fire import MU_FI_DEFAULT, FireRating
 from design.params import EN_RECOMMENDED, NationalParameters
 from design.resistance import DesignSection, SectionBatch
-from design.results import CheckResult
+from design.results import CheckKind, CheckResult
 from design.sections import CircSection, RectSection
 from design.slenderness import ImperfectionMethod
 
@@ -264,6 +265,7 @@ class CheckColumn:
     applicable: np.ndarray
     note: str | np.ndarray | Callable[[int], str] = ""
     blocking: bool = True  # where the method does not apply: fail (True) or flag as not verified (False)
+    kind: CheckKind = CheckKind.RESISTANCE
 
     @property
     def utilisation(self) -> np.ndarray:
@@ -282,7 +284,7 @@ class CheckColumn:
         else:
             note = str(self.note[i])
         return CheckResult(self.name, self.clause, float(self.demand[i]), float(self.capacity[i]),
-                           self.unit, note, bool(self.applicable[i]))
+                           self.unit, note, bool(self.applicable[i]), kind=self.kind)
 
 
 @dataclass
@@ -319,6 +321,28 @@ class MemberChecks:
         axial = self.checks[0].utilisation
         return np.where(axial > 1.0, 0, gov)
 
+    def governing_of(self, kind: CheckKind) -> np.ndarray:
+        """Index into ``checks`` of the governing check of one kind per pair (-1 where there is none)."""
+        cols = [j for j, c in enumerate(self.checks) if c.kind is kind]
+        if not cols:
+            return np.full(len(self.idx), -1)
+        sub = self.utilisation_matrix[:, cols]
+        gov = np.asarray(cols)[sub.argmax(axis=1)]
+        if kind is CheckKind.RESISTANCE:
+            gov = np.where(self.checks[0].utilisation > 1.0, 0, gov)  # axial first, as in ``governing``
+        return gov
+
+    @functools.cached_property
+    def governing_resistance(self) -> np.ndarray:
+        """Index into ``checks`` of the governing resistance check per pair (strength apart from detailing)."""
+        return self.governing_of(CheckKind.RESISTANCE)
+
+    @property
+    def resistance_utilisation(self) -> np.ndarray:
+        """Utilisation of the governing resistance check per pair."""
+        m = self.utilisation_matrix
+        return m[np.arange(m.shape[0]), self.governing_resistance]
+
     @property
     def ok(self) -> np.ndarray:
         """True where every check passes (checks flagged as not verified do not decide)."""
@@ -335,9 +359,14 @@ class MemberChecks:
         results = [c.result(i) for c in self.checks]
         gov = results[int(self.governing[i])]
         flagged = [r for r, c in zip(results, self.checks, strict=True) if not c.blocking and not r.applicable]
+        by_kind = {}
+        for kind in CheckKind:
+            j = int(self.governing_of(kind)[i])
+            if j >= 0:
+                by_kind[kind] = results[j]
         return ColumnCheck(
             checks=results, governing=gov, ok=bool(self.ok[i]), utilisation=float(self.utilisation[i]),
-            unverified=flagged,
+            unverified=flagged, governing_by_kind=by_kind,
             values={k: (v[i].item() if isinstance(v, np.ndarray) else v) for k, v in self.values.items()},
         )
 
@@ -352,6 +381,12 @@ class ColumnCheck:
     utilisation: float
     values: dict[str, float | bool | str]
     unverified: list[CheckResult] = field(default_factory=list)  # methods that do not apply (flagged)
+    governing_by_kind: dict[CheckKind, CheckResult] = field(default_factory=dict)
+
+    @property
+    def governing_resistance(self) -> CheckResult:
+        """The governing resistance check (axial, bending, biaxial, shear), apart from detailing and cover."""
+        return self.governing_by_kind[CheckKind.RESISTANCE]
 
     def check(self, name: str) -> CheckResult:
         """The check called ``name``."""
@@ -542,13 +577,13 @@ def check_members(
     checks.append(CheckColumn("slenderness within range of method", "EN 1992-1-1, 5.8.8 (limit: common practice)",
                               "-", lam_max, np.full(n_pairs, settings.slenderness_cap), ones,
                               f"lambda above {settings.slenderness_cap:g} is flagged"))
-    checks += _detailing_checks(g, NEd, settings, params)
+    checks += [dataclasses.replace(c, kind=CheckKind.DETAILING) for c in _detailing_checks(g, NEd, settings, params)]
     if settings.exposure is not None:
-        checks += _cover_checks(g, settings, params)
+        checks += [dataclasses.replace(c, kind=CheckKind.COVER) for c in _cover_checks(g, settings, params)]
     if settings.fire is not None:
         l0_fi = _b(actions.l0_fi, n_pairs)
         values["l0_fi"] = np.maximum(l0y, l0z) if l0_fi is None else l0_fi
-        checks.append(_fire_check(g, NEd, values, settings, params))
+        checks.append(dataclasses.replace(_fire_check(g, NEd, values, settings, params), kind=CheckKind.FIRE))
 
     # Quantities that feed the schedule (not pass/fail).
     values["lap_length"] = laps.lap_length(g["dia_max"], g["fck"], g["fyk"], params=params)
