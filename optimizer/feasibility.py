@@ -34,7 +34,7 @@ from design.resistance import SectionBatch
 from optimizer.catalogue import STEEL_DENSITY, Catalogue, type_arrays
 from optimizer.errors import InputError
 from optimizer.problem import ScheduleProblem, TypeTable
-from optimizer.scenario import Orientation, Scenario
+from optimizer.scenario import Orientation, Scenario, fire_requirement
 
 __all__ = ["CellTable", "Feasibility", "cell_table", "feasibility", "RECHECK_BAND"]
 
@@ -122,7 +122,8 @@ def cell_table(scenario: Scenario, actions: pd.DataFrame) -> CellTable:
         exp = r["exposure"] if "exposure" in r.index and isinstance(r["exposure"], str) and r["exposure"] else None
         fr = r["fire"] if "fire" in r.index and isinstance(r["fire"], str) and r["fire"] else None
         exposure.append(exp or c.settings.exposure)
-        fire.append(fr or c.settings.fire)
+        # a rating in the actions overrides the scenario's; "none" there removes the requirement
+        fire.append(c.settings.fire if fr is None else fire_requirement(fr))
         st = scenario.stack(c.stack)
         free[i] = st.orientation is Orientation.FREE
         has_above[i] = c.level != st.to_level

@@ -65,6 +65,7 @@ __all__ = [
     "RESERVED_TABLES",
     "EXPOSURE_CLASSES",
     "FIRE_RESISTANCES",
+    "fire_requirement",
     "POSITION_TOLERANCE_M",
 ]
 
@@ -801,6 +802,11 @@ def _exposure(file: str, key: str, value: object) -> str:
     return "+".join(parts)
 
 
+def fire_requirement(value: str | None) -> str | None:
+    """The fire resistance a cell must have: None for "none" (no requirement) or when not given."""
+    return None if value in (None, "", "none") else value
+
+
 def _fire(file: str, key: str, value: object) -> str:
     if value not in FIRE_RESISTANCES:
         raise InputError(file, key, value, f"one of {', '.join(FIRE_RESISTANCES)}"
@@ -911,7 +917,7 @@ def _resolve_cells(file: str, levels: Sequence[Level], stacks: Sequence[Stack],
             b_h = values.get("trial_size_mm", (None, None))
             settings = CellSettings(
                 concrete=concrete, fck_MPa=fck, exposure=values.get("exposure"),
-                fire=values.get("fire"), braced=values.get("braced"),
+                fire=fire_requirement(values.get("fire")), braced=values.get("braced"),
                 effective_length=values.get("effective_length"),
                 trial_b_mm=b_h[0], trial_h_mm=b_h[1],
             )
