@@ -32,6 +32,7 @@ __all__ = [
     "MU_FI_DEFAULT",
     "mu_fi",
     "axis_distance",
+    "average_axis_distance",
     "b_prime",
     "R_eta_fi",
     "R_a",
@@ -129,6 +130,29 @@ def axis_distance(c_link: ArrayLike, phi_link: ArrayLike, phi_main: ArrayLike) -
 
     """
     return _arr(c_link) + _arr(phi_link) + _arr(phi_main) / 2.0
+
+
+def average_axis_distance(areas: ArrayLike, a: ArrayLike) -> float:
+    """Area-weighted mean axis distance am = sum(As,i a_i) / sum(As,i), mm.
+
+    EN 1992-1-2, 5.2(15), Eq. (5.5)
+
+    The tables give the axis distance a of each bar of a single layer; the
+    mean am is what the standard compares with them where bars lie in
+    several layers or are of different sizes (bars of one layer each keep
+    their own axis distance, so the member check compares the smallest a_i
+    with the table as well, and reports am beside it).
+
+    Args:
+        areas: area of each bar, mm2 (1-D).
+        a: axis distance of each bar to the nearest exposed surface, mm (1-D).
+
+    """
+    areas, a = _arr(areas), _arr(a)
+    if areas.shape != a.shape or areas.size == 0 or np.any(areas <= 0):
+        msg = f"areas and axis distances must be non-empty arrays of one shape with positive areas, got {areas}, {a}"
+        raise ValueError(msg)
+    return float(np.sum(areas * a) / np.sum(areas))
 
 
 def b_prime(b: ArrayLike, h: ArrayLike | None = None) -> np.ndarray:

@@ -42,9 +42,10 @@ from typing import Literal
 import numpy as np
 from numpy.typing import ArrayLike
 
-from design import biaxial, cover, detailing, fire, laps, slenderness
+from design import biaxial, cover, creep, detailing, fire, laps, slenderness
 from design.biaxial import SectionShape
 from design.cover import ExposureClass
+from design.creep import CreepSettings
 from design.fire import MU_FI_DEFAULT, FireRating
 from design.params import EN_RECOMMENDED, NationalParameters
 from design.resistance import DesignSection, SectionBatch
@@ -105,6 +106,12 @@ class CheckSettings:
         fire_outside_method: where fire method A does not apply (EN 1992-1-2 5.3.2(2)),
             "fail" the check, or "flag" it as not verified (another method, e.g.
             5.3.3 or Annex B, must then be used; reported as a warning).
+        creep: conditions for the creep coefficient of Annex B (relative
+            humidity, age at loading, cement class) where phi_ef is not given.
+        curvature_c: factor c of Eq. (5.33); None (default): from the shape of
+            the first-order moment, 8 where it is constant and 10 where it
+            changes sign, linear between (5.8.8.2(4), see
+            :func:`design.slenderness.c_curvature`); a number in [8, 12] fixes it.
     """
 
     imperfection: ImperfectionMethod = ImperfectionMethod.INCLINATION
@@ -119,8 +126,13 @@ class CheckSettings:
     lapped: bool = True
     slenderness_cap: float = SLENDERNESS_CAP
     fire_outside_method: Literal["fail", "flag"] = "fail"
+    creep: CreepSettings = CreepSettings()
+    curvature_c: float | None = None
 
     def __post_init__(self) -> None:
+        if self.curvature_c is not None and not 8.0 <= self.curvature_c <= 12.0:
+            msg = f"curvature_c must lie between 8 and 12 (EN 1992-1-1, 5.8.8.2(4)), got c={self.curvature_c}"
+            raise ValueError(msg)
         object.__setattr__(self, "imperfection", ImperfectionMethod(self.imperfection))
         object.__setattr__(self, "min_eccentricity", MinEccentricity(self.min_eccentricity))
         object.__setattr__(self, "biaxial", BiaxialMethod(self.biaxial))
@@ -151,14 +163,27 @@ class ColumnActions:
         Mz_top, Mz_bot: first-order moments about z at the top and bottom, N mm.
         l0y: effective length for buckling about y (lever arm along h), mm.
         l0z: effective length for buckling about z, mm.
-        l_clear: clear height, mm (alpha_h of 5.2(5), link counts); l0 when None.
+        l_clear: clear height, mm (alpha_h of 5.2(5), shear from end moments);
+            None when not known: alpha_h = 1 and, for shear, l = l0 (braced)
+            or l0/2 (unbraced), both on the safe side.
         l0_fi: effective length in fire, mm; None: max(l0y, l0z), which EN 1992-1-2
             5.3.2(2) allows in all cases (braced structures may use less).
-        phi_ef: effective creep ratio; None: unknown (A = 0.7 in lambda_lim,
-            K_phi from phi_ef = 0 is then not conservative, so a value should be
-            given for slender columns; 2.0 is a common concept-stage figure).
+        phi_ef: effective creep ratio given by the user (0 allowed, 5.8.4(4));
+            None: computed per pair as phi(inf, t0) M0Eqp/M0Ed (Eq. (5.19)) with
+            phi(inf, t0) from Annex B (``CheckSettings.creep``) and the ratio
+            ``M0Eqp_ratio``. The same phi_ef gives A of Eq. (5.13N) and K_phi
+            of Eq. (5.37).
+        M0Eqp_ratio: M0Eqp / M0Ed, first-order moment under the quasi-permanent
+            combination over that under the design combination (5.8.4(2));
+            None: 1.0, its usual upper bound, said on the sheet.
         moments_from_analysis: rm = M01/M02 may be used for C (braced members
             whose end moments come from an analysis, 5.8.3.1(1)); else C = 0.7.
+        braced: the member belongs to a braced structure. Unbraced members take
+            C = 0.7 (rm not used, 5.8.3.1(1)) and MEd = M02 + M2 at the end
+            (5.8.8.2); l0 is the caller's (Eq. (5.16)).
+        As_below: area of the bars lapping into the foot of this storey from the
+            storey below, mm2 (9.5.2(3)); None: the same bars as this storey.
+        V_Ed: shear force given besides that of the end moments, N (>= 0).
     """
 
     NEd: ArrayLike
@@ -171,7 +196,11 @@ class ColumnActions:
     l_clear: ArrayLike | None = None
     l0_fi: ArrayLike | None = None
     phi_ef: ArrayLike | None = None
+    M0Eqp_ratio: ArrayLike | None = None
     moments_from_analysis: bool = True
+    braced: bool = True
+    As_below: ArrayLike | None = None
+    V_Ed: ArrayLike | None = None
 
 
 @dataclass
@@ -200,6 +229,8 @@ class SectionData:
     n_bars: np.ndarray
     min_gap: np.ndarray
     extra_ties: np.ndarray
+    a_fire_min: np.ndarray  # smallest axis distance of any bar to its nearest face, mm (EN 1992-1-2, 5.2)
+    a_fire_mean: np.ndarray  # area-weighted mean axis distance am, mm (EN 1992-1-2, Eq. (5.5))
 
     @classmethod
     def of(cls, batch: SectionBatch) -> SectionData:
@@ -212,6 +243,7 @@ class SectionData:
         iy = np.where(circ, h / 4.0, h / np.sqrt(12.0))
         iz = np.where(circ, b / 4.0, b / np.sqrt(12.0))
         ties = [extra_ties(s) for s in secs]
+        axis = [_axis_distances(s) for s in secs]
         return cls(
             batch=batch, circ=circ, b=b, h=h,
             Ac=np.array([s.Ac for s in secs]), As=np.array([s.As for s in secs]),
@@ -227,7 +259,22 @@ class SectionData:
             n_bars=np.array([s.bars.count for s in secs]),
             min_gap=np.array([float(np.min(s.clear_spacings())) for s in secs]),
             extra_ties=np.array(ties),
+            a_fire_min=np.array([a for a, _ in axis]), a_fire_mean=np.array([m for _, m in axis]),
         )
+
+
+def _axis_distances(section: RectSection | CircSection) -> tuple[float, float]:
+    """Smallest and area-weighted mean axis distance of the bars to the nearest face, mm.
+
+    EN 1992-1-2, 5.2(1) and Eq. (5.5): a bar's axis distance is measured from
+    its centre to the nearest exposed surface (all faces exposed).
+    """
+    y, z, dia = section.bar_coords()
+    if isinstance(section, CircSection):
+        a = section.diameter / 2.0 - np.hypot(y, z)
+    else:
+        a = np.minimum(section.b / 2.0 - np.abs(y), section.h / 2.0 - np.abs(z))
+    return float(a.min()), fire.average_axis_distance(np.pi * dia**2 / 4.0, a)
 
 
 def extra_ties(section: RectSection | CircSection) -> int:
@@ -402,37 +449,51 @@ def _b(x: ArrayLike | None, n: int) -> np.ndarray | None:
 
 
 def _axis_moments(
-    NEd, M_top, M_bot, l0, i, h_e0, d, Ac, As, fck, fcd, fyd, Es, phi_ef, n, omega, ei_, with_imp,
-    with_e0, use_rm, params,
+    NEd, M_top, M_bot, l0, i, h_e0, d, fck, fyd, Es, phi_ef, n, omega, ei_, with_imp,
+    with_e0, use_rm, braced, c_fixed, params,
 ):
     """Design moment about one axis for one imperfection case (arrays; N, mm).
 
     EN 1992-1-1, 5.8.8 with 5.8.3.1, 5.2(7) and 6.1(4).
+
+    rm = M01/M02 is taken from the first-order end moments including the
+    imperfection moment NEd ei, which acts at both ends in the direction of
+    M02; where the imperfection moment is at least the larger end moment of
+    the analysis, the first-order moment is predominantly due to the
+    imperfection and rm = 1 (5.8.3.1(1)). Unbraced members take C = 0.7 and
+    MEd = M02 + M2 (the second-order moment adds at the end).
     """
     lam = slenderness.slenderness(l0, i)
-    rm = slenderness.r_m(M_top, M_bot) if use_rm is not None else None
-    if rm is not None:
-        rm = np.where(use_rm, rm, 1.0)  # rm = 1 (C = 0.7) where not known
-    lim = slenderness.lambda_lim(n, phi_ef=phi_ef, omega=omega, r_m=rm, params=params)
     M01, M02 = slenderness.first_order_end_moments(M_top, M_bot, NEd, ei_, with_imp)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        rm_total = np.where(M02 > 0, M01 / np.where(M02 > 0, M02, 1.0), 1.0)
+    m_imp = np.where(with_imp, np.maximum(NEd, 0.0) * ei_, 0.0)
+    m_first = np.maximum(np.abs(M_top), np.abs(M_bot))
+    predominantly_imp = with_imp & (m_imp >= m_first)
+    rm = np.where(predominantly_imp, 1.0, np.clip(rm_total, -1.0, 1.0))
+    rm = np.where(use_rm & braced, rm, 1.0)  # C = 0.7 where rm may not be used
+    lim = slenderness.lambda_lim(n, phi_ef=phi_ef, omega=omega, r_m=rm, params=params)
     e0 = np.where(with_e0, slenderness.e0_min(h_e0), 0.0)
-    phi = np.zeros_like(NEd) if phi_ef is None else phi_ef
     kr = slenderness.Kr(np.maximum(n, 0.0), omega)
-    kphi = slenderness.Kphi(phi, fck, lam)
+    kphi = slenderness.Kphi(phi_ef, fck, lam)
     curv = slenderness.inv_r(kr, kphi, slenderness.inv_r0(slenderness.eps_yd(fyd, Es), d))
-    e2 = slenderness.e2(curv, l0)
+    c = slenderness.c_curvature(rm_total) if c_fixed is None else np.full_like(NEd, c_fixed)
+    e2 = slenderness.e2(curv, l0, c)
     slender = (lam > lim.lambda_lim) & (NEd > 0)
     m2 = np.where(slender, slenderness.M2(NEd, e2), 0.0)
+    end_moment = np.maximum(M02 + m2, np.maximum(NEd, 0.0) * e0)  # unbraced: MEd = M02 + M2
     MEd = np.where(
         slender,
-        slenderness.design_moment_second_order(NEd, M01, M02, m2, e0),
+        np.where(braced, slenderness.design_moment_second_order(NEd, M01, M02, m2, e0), end_moment),
         slenderness.design_moment_first_order(NEd, M02, e0),
     )
+    ones = np.ones_like(NEd)
     return {
-        "lambda": lam, "lambda_lim": lim.lambda_lim, "A": lim.A * np.ones_like(NEd),
-        "B": lim.B * np.ones_like(NEd), "C": lim.C * np.ones_like(NEd), "M01": M01, "M02": M02,
+        "lambda": lam, "lambda_lim": lim.lambda_lim, "A": lim.A * ones,
+        "B": lim.B * ones, "C": lim.C * ones, "rm": rm * ones, "rm_imperfection": predominantly_imp * ones,
+        "M01": M01, "M02": M02,
         "M0e": np.abs(slenderness.M0e(M01, M02)), "e0": slenderness.e0_min(h_e0),
-        "Kr": kr, "Kphi": kphi, "inv_r": curv, "e2": np.where(slender, e2, 0.0), "M2": m2,
+        "Kr": kr, "Kphi": kphi, "inv_r": curv, "c": c * ones, "e2": np.where(slender, e2, 0.0), "M2": m2,
         "MEd": MEd, "slender": slender,
     }
 
@@ -471,24 +532,22 @@ def check_members(
     NEd = _b(actions.NEd, n_pairs)
     g = {k: getattr(data, k)[idx] for k in (
         "circ", "b", "h", "Ac", "As", "iy", "iz", "dy", "dz", "fck", "fcd", "fyk", "fyd", "Es",
-        "cover", "link", "dia_max", "dia_min", "n_bars", "min_gap", "extra_ties")}
+        "cover", "link", "dia_max", "dia_min", "n_bars", "min_gap", "extra_ties", "a_fire_min", "a_fire_mean")}
     l0y, l0z = _b(actions.l0y, n_pairs), _b(actions.l0z, n_pairs)
     if np.any(l0y <= 0) or np.any(l0z <= 0):
         msg = "effective lengths l0y, l0z must be positive (mm)"
         raise ValueError(msg)
     l_clear = _b(actions.l_clear, n_pairs)
-    phi_ef = _b(actions.phi_ef, n_pairs)
     moments = {k: _b(getattr(actions, k), n_pairs) for k in ("My_top", "My_bot", "Mz_top", "Mz_bot")}
+    braced = np.full(n_pairs, bool(actions.braced))
 
     n = NEd / (g["Ac"] * g["fcd"])
     omega = g["As"] * g["fyd"] / (g["Ac"] * g["fcd"])
     ei_y = slenderness.ei(l0y, settings.imperfection, l=l_clear, params=params)
     ei_z = slenderness.ei(l0z, settings.imperfection, l=l_clear, params=params)
-    use_rm = (np.abs(np.maximum(np.abs(moments["My_top"]), np.abs(moments["My_bot"]))) > 0) \
-        if actions.moments_from_analysis else None
-    use_rm_z = (np.maximum(np.abs(moments["Mz_top"]), np.abs(moments["Mz_bot"])) > 0) \
-        if actions.moments_from_analysis else None
+    use_rm = np.full(n_pairs, bool(actions.moments_from_analysis))
     both = settings.min_eccentricity is MinEccentricity.BOTH_AXES
+    phi_ef, creep_values = _creep(g, actions, settings, n_pairs)
 
     # Resistances at NEd (independent of the imperfection case).
     NRd = sb.NRd()[idx]
@@ -507,16 +566,15 @@ def check_members(
     a_exp = np.where(g["circ"], 2.0,
                      biaxial.exponent_a(np.maximum(NEd, 0.0), NRd_a, SectionShape.RECTANGULAR))
 
-    common = dict(NEd=NEd, Ac=g["Ac"], As=g["As"], fck=g["fck"], fcd=g["fcd"], fyd=g["fyd"], Es=g["Es"],
-                  phi_ef=phi_ef, n=n, omega=omega, params=params)
+    common = dict(NEd=NEd, fck=g["fck"], fyd=g["fyd"], Es=g["Es"], phi_ef=phi_ef, n=n, omega=omega,
+                  braced=braced, use_rm=use_rm, c_fixed=settings.curvature_c, params=params)
     cases = []
     for imp_on_y in (True, False):
         ay = _axis_moments(M_top=moments["My_top"], M_bot=moments["My_bot"], l0=l0y, i=g["iy"], h_e0=g["h"],
-                           d=g["dy"], ei_=ei_y, with_imp=imp_on_y, with_e0=imp_on_y or both,
-                           use_rm=use_rm, **common)
+                           d=g["dy"], ei_=ei_y, with_imp=imp_on_y, with_e0=imp_on_y or both, **common)
         az = _axis_moments(M_top=moments["Mz_top"], M_bot=moments["Mz_bot"], l0=l0z, i=g["iz"], h_e0=g["b"],
                            d=g["dz"], ei_=ei_z, with_imp=not imp_on_y, with_e0=(not imp_on_y) or both,
-                           use_rm=use_rm_z, **common)
+                           **common)
         uy = _ratio(ay["MEd"], MRdy)
         uz = _ratio(az["MEd"], MRdz)
         crit_a = biaxial.slenderness_ratio_ok(ay["lambda"], az["lambda"])
@@ -548,11 +606,19 @@ def check_members(
         "l0y": l0y, "l0z": l0z, "shape": shape,
     }
     for ax in ("y", "z"):
-        for key in ("lambda", "lambda_lim", "A", "B", "C", "M01", "M02", "M0e", "e0", "Kr", "Kphi", "inv_r",
-                    "e2", "M2", "slender"):
+        for key in ("lambda", "lambda_lim", "A", "B", "C", "rm", "rm_imperfection", "M01", "M02", "M0e", "e0",
+                    "Kr", "Kphi", "inv_r", "c", "e2", "M2", "slender"):
             values[f"{key}_{ax}"] = sel(key, ax)
-    values["A_default"] = np.full(n_pairs, phi_ef is None)
-    values["C_default"] = np.full(n_pairs, not actions.moments_from_analysis)
+    values["A_default"] = np.zeros(n_pairs, dtype=bool)  # A always comes from phi_ef now (5.8.4)
+    values["C_default"] = ~(use_rm & braced)
+    values["braced"] = braced
+    values.update(creep_values)
+    # 5.8.4(4): creep may be ignored (phi_ef = 0) where phi(inf, t0) <= 2, lambda <= 75 and M0Ed/NEd >= h
+    with np.errstate(divide="ignore", invalid="ignore"):
+        ecc_ok = ((values["M02_y"] / np.where(NEd > 0, NEd, np.inf) >= g["h"])
+                  & (values["M02_z"] / np.where(NEd > 0, NEd, np.inf) >= g["b"]))
+    values["creep_ignorable_5_8_4_4"] = ((creep_values["phi_inf"] <= 2.0)
+                                         & (np.maximum(values["lambda_y"], values["lambda_z"]) <= 75.0) & ecc_ok)
 
     ones = np.ones(n_pairs, dtype=bool)
     checks = [
@@ -577,7 +643,8 @@ def check_members(
     checks.append(CheckColumn("slenderness within range of method", "EN 1992-1-1, 5.8.8 (limit: common practice)",
                               "-", lam_max, np.full(n_pairs, settings.slenderness_cap), ones,
                               f"lambda above {settings.slenderness_cap:g} is flagged"))
-    checks += [dataclasses.replace(c, kind=CheckKind.DETAILING) for c in _detailing_checks(g, NEd, settings, params)]
+    checks += [dataclasses.replace(c, kind=CheckKind.DETAILING) for c in _detailing_checks(g, NEd, settings, params,
+                                                                             _b(actions.As_below, n_pairs))]
     if settings.exposure is not None:
         checks += [dataclasses.replace(c, kind=CheckKind.COVER) for c in _cover_checks(g, settings, params)]
     if settings.fire is not None:
@@ -593,13 +660,35 @@ def check_members(
     return MemberChecks(idx=idx, checks=checks, values=values)
 
 
+def _creep(g: dict, actions: ColumnActions, settings: CheckSettings, n_pairs: int):
+    """Effective creep ratio per pair and the values that explain it (EN 1992-1-1, 5.8.4, Annex B)."""
+    perimeter = np.where(g["circ"], creep.perimeter_circle(g["b"]), creep.perimeter_rectangle(g["b"], g["h"]))
+    h0 = creep.notional_size(g["Ac"], perimeter)
+    phi_inf = creep.phi_inf_section(g["Ac"], perimeter, g["fck"] + 8.0, settings.creep)  # fcm, Table 3.1
+    given = actions.phi_ef is not None
+    ratio_given = actions.M0Eqp_ratio is not None
+    ratio = _b(actions.M0Eqp_ratio, n_pairs) if ratio_given else np.ones(n_pairs)
+    if given:
+        phi_ef = _b(actions.phi_ef, n_pairs)
+        source = "given"
+    else:
+        phi_ef = creep.phi_ef(phi_inf, ratio)
+        source = ("Annex B, M0Eqp/M0Ed from the quasi-permanent and design combinations" if ratio_given
+                  else "Annex B, M0Eqp/M0Ed not given: 1.0 taken (upper bound)")
+    return phi_ef, {
+        "phi_ef": phi_ef, "phi_inf": phi_inf, "h0": h0, "M0Eqp_ratio": ratio,
+        "phi_ef_source": np.full(n_pairs, source), "creep_conditions": np.full(n_pairs, settings.creep.describe()),
+    }
+
+
 def _ratio(demand: np.ndarray, capacity: np.ndarray) -> np.ndarray:
     with np.errstate(divide="ignore", invalid="ignore"):
         return np.where(capacity > 0, demand / np.where(capacity > 0, capacity, 1.0),
                         np.where(demand > 0, np.inf, 0.0))
 
 
-def _detailing_checks(g: dict, NEd: np.ndarray, settings: CheckSettings, params: NationalParameters):
+def _detailing_checks(g: dict, NEd: np.ndarray, settings: CheckSettings, params: NationalParameters,
+                      As_below: np.ndarray | None = None):
     n_pairs = len(NEd)
     ones = np.ones(n_pairs, dtype=bool)
     as_min = detailing.As_min(np.maximum(NEd, 0.0), g["fyd"], g["Ac"], params)
@@ -612,9 +701,12 @@ def _detailing_checks(g: dict, NEd: np.ndarray, settings: CheckSettings, params:
                     detailing.As_max(g["Ac"], False, params), ones, "As <= 0.04 Ac outside laps"),
     ]
     if settings.lapped:
-        out.append(CheckColumn("maximum reinforcement at laps", "EN 1992-1-1, 9.5.2(3)", "mm2", 2.0 * g["As"],
-                               detailing.As_max(g["Ac"], True, params), ones,
-                               "all bars lapped at one section: 2 As <= 0.08 Ac"))
+        below = g["As"] if As_below is None else As_below
+        note = ("bars below and this storey's bars in the lap zone: As,below + As <= 0.08 Ac "
+                + ("(bars below taken equal to this storey's; a schedule checks the real pair)"
+                   if As_below is None else "(bars below as given)"))
+        out.append(CheckColumn("maximum reinforcement at laps", "EN 1992-1-1, 9.5.2(3)", "mm2", below + g["As"],
+                               detailing.As_max(g["Ac"], True, params), ones, note))
     n_min = np.where(g["circ"], 6.0, 4.0)
     spacing = detailing.min_clear_spacing(g["dia_max"], settings.aggregate, params)
     out += [
@@ -650,7 +742,9 @@ def _fire_check(g: dict, NEd: np.ndarray, values: dict, settings: CheckSettings,
     """EN 1992-1-2 Table 5.2a (method A), vectorised over pairs for one rating."""
     rating = settings.fire
     n_pairs = len(NEd)
-    a = fire.axis_distance(g["cover"], g["link"], g["dia_max"])
+    a = g["a_fire_min"]  # each bar's own axis distance: the smallest must meet the table (5.2(15))
+    values["a_fire_min"] = a
+    values["a_fire_mean"] = g["a_fire_mean"]
     width = np.minimum(g["b"], g["h"])
     l0_fi = values["l0_fi"]
     with np.errstate(divide="ignore", invalid="ignore"):
@@ -677,7 +771,9 @@ def _fire_check(g: dict, NEd: np.ndarray, values: dict, settings: CheckSettings,
             return f"Table 5.2a gives no value for {rating.name} at mu_fi = {settings.mu_fi:g}"
         if cond[i]:
             if np.isfinite(demand[i]):
-                return f"axis distance a = c + phi_link + phi/2; mu_fi column {col}, width {width[i]:g} mm"
+                return (f"axis distance of the nearest bar a = c + phi_link + phi/2 = {a[i]:g} mm "
+                        f"(area-weighted mean am = {g['a_fire_mean'][i]:.1f} mm, Eq. (5.5)); "
+                        f"mu_fi column {col}, width {width[i]:g} mm")
             return "section narrower than every bmin of Table 5.2a (or fewer than 8 bars)"
         why = [f"l0,fi = {l0_fi[i]:,.0f} mm > 3000 mm", f"e = {e_z[i]:.0f} mm > {kmax:g} h",
                f"e = {e_y[i]:.0f} mm > {kmax:g} b", "As >= 0.04 Ac"]

@@ -82,6 +82,18 @@ class NationalParameters:
         e_max_fire_factor: emax / h (or b) for the first-order eccentricity
             limit of method A for columns in fire (0.15; the annex may choose
             0.15 to 0.4). EN 1992-1-2, 5.3.2(2), Note.
+        k_min_restraint: smallest relative flexibility k1, k2 of an end
+            restraint used in Eqs. (5.15), (5.16) (0.1; rigid restraint is
+            rare in practice). EN 1992-1-1, 5.8.3.2(3), Note.
+        C_Rdc_factor: CRd,c = C_Rdc_factor / gamma_c (0.18). EN 1992-1-1, 6.2.2(1), Note.
+        v_min_factor: v_min = v_min_factor k^1.5 fck^0.5 (0.035). EN 1992-1-1, Eq. (6.3N).
+        k1_shear: k1 on the axial stress sigma_cp in VRd,c (0.15). EN 1992-1-1, 6.2.2(1), Note.
+        cot_theta_max: upper limit of cot(theta) for the strut angle (2.5).
+            EN 1992-1-1, 6.2.3(2), Note 1 (lower limit 1).
+        k1_stress: compressive stress limit k1 fck under the characteristic
+            combination in XD, XF and XS exposures (0.6). EN 1992-1-1, 7.2(2).
+        k2_stress: stress limit k2 fck under the quasi-permanent combination
+            for linear creep (0.45). EN 1992-1-1, 7.2(3).
     """
 
     name: str = "EN 1992-1-1 recommended"
@@ -114,6 +126,13 @@ class NationalParameters:
     delta_c_dur_st: float = 0.0
     delta_c_dur_add: float = 0.0
     e_max_fire_factor: float = 0.15
+    k_min_restraint: float = 0.1
+    C_Rdc_factor: float = 0.18
+    v_min_factor: float = 0.035
+    k1_shear: float = 0.15
+    cot_theta_max: float = 2.5
+    k1_stress: float = 0.6
+    k2_stress: float = 0.45
 
     def __post_init__(self) -> None:
         positive = (
@@ -121,6 +140,7 @@ class NationalParameters:
             "lambda_B", "lambda_C", "phi_min_long", "rho_min_area", "rho_max",
             "rho_max_lap", "scl_factor_phi", "scl_max_mm", "scl_reduction",
             "gamma_G", "gamma_Q", "xi", "k1_spacing", "eps_ud_factor",
+            "C_Rdc_factor", "v_min_factor", "k1_stress", "k2_stress",
         )
         for field in positive:
             value = getattr(self, field)
@@ -132,6 +152,13 @@ class NationalParameters:
             raise ValueError(msg)
         if self.delta_c_dev < 0 or self.k2_spacing_mm < 0 or self.rho_min_axial < 0:
             msg = "delta_c_dev, k2_spacing_mm and rho_min_axial must not be negative"
+            raise ValueError(msg)
+        if self.k_min_restraint < 0 or self.k1_shear < 0:
+            msg = (f"k_min_restraint and k1_shear must not be negative, got k_min_restraint={self.k_min_restraint}, "
+                   f"k1_shear={self.k1_shear}")
+            raise ValueError(msg)
+        if not 1.0 <= self.cot_theta_max <= 3.0:
+            msg = f"cot_theta_max must lie between 1 and 3 (EN 1992-1-1, 6.2.3(2)), got {self.cot_theta_max}"
             raise ValueError(msg)
         if self.xi > 1.0 or self.scl_reduction > 1.0:
             msg = (f"xi and scl_reduction are reduction factors (<= 1), "
@@ -154,11 +181,13 @@ EN_RECOMMENDED = NationalParameters()
 #   3.1.6(1)P); alpha_ct = 1.0.
 # - gamma_c = 1.5, gamma_s = 1.15 (same as recommended).
 # - xi = 0.925 (NA to BS EN 1990, Table NA.A1.2(B)).
+# - phi_min_long = 12 mm (NA to BS EN 1992-1-1, 9.5.2(1)).
 # Other values follow the recommended ones here.
 UK_ANNEX = NationalParameters(
     name="UK National Annex (values recalled from memory; verify)",
     alpha_cc=0.85,
     xi=0.925,
+    phi_min_long=12.0,
 )
 
 _SETS = {ParameterSet.EN: EN_RECOMMENDED, ParameterSet.UK: UK_ANNEX}

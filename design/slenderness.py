@@ -33,6 +33,7 @@ __all__ = [
     "ImperfectionMethod",
     "SlendernessLimit",
     "NominalCurvatureResult",
+    "k_restraint",
     "l0_braced",
     "l0_unbraced",
     "l0_from_factor",
@@ -61,6 +62,7 @@ __all__ = [
     "beta_creep",
     "Kphi",
     "inv_r",
+    "c_curvature",
     "e2",
     "M2",
     "design_moment_first_order",
@@ -94,7 +96,23 @@ def _require(ok: np.ndarray | bool, msg: Callable[[], str]) -> None:
 # --------------------------------------------------------------------------
 
 
-def l0_braced(l: ArrayLike, k1: ArrayLike, k2: ArrayLike) -> np.ndarray:
+def k_restraint(k: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> np.ndarray:
+    """Relative flexibility of an end restraint, not below the recommended minimum (-).
+
+    EN 1992-1-1, 5.8.3.2(3), Note: rigid restraint (k = 0) is rare in practice;
+    0.1 is recommended as the minimum value of k1 and k2.
+
+    Args:
+        k: relative flexibility as given (-), >= 0, inf for a pin. Broadcasts.
+        params: national parameters (k_min_restraint).
+
+    """
+    k = _arr(k)
+    _require(k >= 0, lambda: f"k must not be negative, got k={k} (-)")
+    return np.maximum(k, params.k_min_restraint)
+
+
+def l0_braced(l: ArrayLike, k1: ArrayLike, k2: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> np.ndarray:
     """Effective length of a braced member, mm.
 
     EN 1992-1-1, Eq. (5.15)
@@ -103,21 +121,23 @@ def l0_braced(l: ArrayLike, k1: ArrayLike, k2: ArrayLike) -> np.ndarray:
     Args:
         l: clear height between end restraints, mm.
         k1: relative flexibility of the rotational restraint at end 1 (-),
-            0 = fully fixed, inf = pinned; see 5.8.3.2(3) for the suggested
-            minimum 0.1 (not applied here).
+            0 = fully fixed, inf = pinned; raised to the recommended minimum
+            0.1 of 5.8.3.2(3) (:func:`k_restraint`).
         k2: same at end 2 (-).
-        All arguments broadcast.
+        params: national parameters (k_min_restraint).
+        The numeric arguments broadcast.
 
     """
     l, k1, k2 = _arr(l), _arr(k1), _arr(k2)
     _require(l > 0, lambda: f"clear height l must be positive, got l={l} mm")
     _require((k1 >= 0) & (k2 >= 0), lambda: f"k1, k2 must not be negative, got k1={k1}, k2={k2} (-)")
+    k1, k2 = k_restraint(k1, params), k_restraint(k2, params)
     f1 = np.where(np.isinf(k1), 2.0, 1.0 + k1 / (0.45 + np.where(np.isinf(k1), 1.0, k1)))
     f2 = np.where(np.isinf(k2), 2.0, 1.0 + k2 / (0.45 + np.where(np.isinf(k2), 1.0, k2)))
     return 0.5 * l * np.sqrt(f1 * f2)
 
 
-def l0_unbraced(l: ArrayLike, k1: ArrayLike, k2: ArrayLike) -> np.ndarray:
+def l0_unbraced(l: ArrayLike, k1: ArrayLike, k2: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> np.ndarray:
     """Effective length of an unbraced (sway) member, mm.
 
     EN 1992-1-1, Eq. (5.16)
@@ -125,15 +145,18 @@ def l0_unbraced(l: ArrayLike, k1: ArrayLike, k2: ArrayLike) -> np.ndarray:
 
     Args:
         l: clear height, mm.
-        k1: relative flexibility at end 1 (-), finite.
+        k1: relative flexibility at end 1 (-), finite; raised to the
+            recommended minimum 0.1 of 5.8.3.2(3) (:func:`k_restraint`).
         k2: relative flexibility at end 2 (-), finite.
-        All arguments broadcast.
+        params: national parameters (k_min_restraint).
+        The numeric arguments broadcast.
 
     """
     l, k1, k2 = _arr(l), _arr(k1), _arr(k2)
     _require(l > 0, lambda: f"clear height l must be positive, got l={l} mm")
     _require((k1 >= 0) & (k2 >= 0) & np.isfinite(k1) & np.isfinite(k2),
              lambda: f"k1, k2 must be finite and not negative, got k1={k1}, k2={k2} (-)")
+    k1, k2 = k_restraint(k1, params), k_restraint(k2, params)
     s = k1 + k2
     a = np.sqrt(1.0 + 10.0 * np.divide(k1 * k2, s, out=np.zeros_like(s * 1.0), where=s > 0))
     b = (1.0 + k1 / (1.0 + k1)) * (1.0 + k2 / (1.0 + k2))
@@ -474,7 +497,10 @@ def ei(
     Args:
         l0: effective length, mm.
         method: :class:`ImperfectionMethod`.
-        l: actual member length for alpha_h, mm (defaults to l0 when None).
+        l: actual member length for alpha_h, mm (5.2(5) defines alpha_h by the
+            length, not by l0); None when not known: alpha_h = 1, its upper
+            bound (l0 in its place would understate alpha_h for unbraced
+            members, whose l0 exceeds l).
         m: number of members for alpha_m (-), 1 for an isolated member.
         params: national parameters (theta_0).
         The numeric arguments broadcast.
@@ -483,7 +509,9 @@ def ei(
     method = ImperfectionMethod(method)
     if method is ImperfectionMethod.SIMPLIFIED:
         return ei_simplified(l0)
-    return ei_inclination(theta_i(l0 if l is None else l, m, params), l0)
+    if l is None:
+        return ei_inclination(params.theta_0 * alpha_m(m), l0)  # alpha_h = 1 (upper bound)
+    return ei_inclination(theta_i(l, m, params), l0)
 
 
 def e0_min(h: ArrayLike) -> np.ndarray:
@@ -671,6 +699,26 @@ def inv_r(Kr: ArrayLike, Kphi: ArrayLike, inv_r0: ArrayLike) -> np.ndarray:
 
     """
     return _arr(Kr) * _arr(Kphi) * _arr(inv_r0)
+
+
+def c_curvature(r_m_total: ArrayLike) -> np.ndarray:
+    """Factor c of the curvature distribution in Eq. (5.33), from the first-order moment ratio (-).
+
+    EN 1992-1-1, 5.8.8.2(4)
+    c = 10 (about pi^2) for a constant cross-section; where the first-order
+    moment is constant a lower value should be considered, 8 being the lower
+    limit (constant total moment). Between the two cases the value is taken
+    linearly, c = 10 - 2 rm for 0 <= rm <= 1 and 10 for double curvature
+    (common practice interpolation; the clause names only the end points).
+
+    Args:
+        r_m_total: M01/M02 of the first-order end moments including the
+            imperfection moment (-), in [-1, 1]; 1 for a constant moment.
+            Broadcasts.
+
+    """
+    rm = _arr(r_m_total)
+    return C_CURVATURE - 2.0 * np.clip(rm, 0.0, 1.0)
 
 
 def e2(inv_r: ArrayLike, l0: ArrayLike, c: ArrayLike = C_CURVATURE) -> np.ndarray:

@@ -257,15 +257,16 @@ def required_cover(scenario: Scenario, spec: CatalogueSpec, params: NationalPara
         raise InputError(scenario.source, "catalogue.cover_mm", None,
                          "missing: give cover_mm, or exposure classes in [[settings]] to derive it")
 
-    def cover(phi: float, link: float, width: float = 0.0, n_bars: int = 4) -> float:
+    def cover(phi: float, link: float, width: float = 0.0, n_bars: int = 4, phi_small: float | None = None) -> float:
         to_link = float(cnom(cmin(cmin_b(link, dg), worst_dur, params), params))
         to_bar = float(cnom(cmin(cmin_b(phi, dg), worst_dur, params), params)) - link
         need = max(to_link, to_bar)
         if worst_fire is not None:
-            # axis distance of EN 1992-1-2 Table 5.2a (mu_fi = 0.7 column) for this width
+            # axis distance of EN 1992-1-2 Table 5.2a (mu_fi = 0.7 column) for this width, met by every
+            # bar: the smallest bar (phi_small, e.g. the middle bars under larger corners) sits closest
             usable = [a for b, a, eight in TABLE_5_2A[worst_fire][0.7] if width >= b and (n_bars >= 8 or not eight)]
             if usable:
-                need = max(need, min(usable) - link - phi / 2)
+                need = max(need, min(usable) - link - (phi if phi_small is None else phi_small) / 2)
         return 5.0 * math.ceil(need / 5.0 - 1e-9)
 
     fire_note = f" and {worst_fire.name} (EN 1992-1-2 Table 5.2a axis distance)" if worst_fire else ""
@@ -353,7 +354,7 @@ def build_catalogue(scenario: Scenario, spec: CatalogueSpec | None = None) -> Ca
                             continue
                         big = max(dia, corner or 0.0)
                         try:
-                            sec = RectSection(b, h, cover_for(big, _link_for(big), b, 2 * nb + 2 * nh - 4),
+                            sec = RectSection(b, h, cover_for(big, _link_for(big), b, 2 * nb + 2 * nh - 4, dia),
                                               _link_for(big), RectBars(dia, nb, nh, corner))
                         except ValueError:
                             continue
@@ -412,7 +413,8 @@ def _explicit(b, h, D, bars, cover_for, concretes, steel, params, scenario):
     terms = parse_bar_notation(bars)
     dias = [d for _, d in terms]
     link = _link_for(max(dias))
-    cover = cover_for(max(dias), link, min(float(b or D or 0), float(h or D or 0)), sum(n for n, _ in terms))
+    cover = cover_for(max(dias), link, min(float(b or D or 0), float(h or D or 0)), sum(n for n, _ in terms),
+                      min(dias))
     total = sum(n for n, _ in terms)
     try:
         if D is not None:

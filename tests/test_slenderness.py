@@ -35,8 +35,9 @@ def test_l0_braced_eq_5_15_by_hand():
     ],
 )
 def test_l0_braced_limit_cases_fig_5_7(k1, k2, factor):
-    """EN 1992-1-1 Fig. 5.7, braced cases, from Eq. (5.15)."""
-    assert float(sl.l0_braced(3000.0, k1, k2)) == pytest.approx(3000.0 * factor)
+    """EN 1992-1-1 Fig. 5.7, braced cases, from Eq. (5.15) (ideal restraints: no minimum k)."""
+    ideal = with_overrides(EN_RECOMMENDED, k_min_restraint=0.0)
+    assert float(sl.l0_braced(3000.0, k1, k2, ideal)) == pytest.approx(3000.0 * factor)
 
 
 @pytest.mark.parametrize(
@@ -47,8 +48,23 @@ def test_l0_braced_limit_cases_fig_5_7(k1, k2, factor):
     ],
 )
 def test_l0_unbraced_limit_cases_fig_5_7(k1, k2, factor):
-    """EN 1992-1-1 Fig. 5.7, unbraced cases, from Eq. (5.16)."""
-    assert float(sl.l0_unbraced(3000.0, k1, k2)) == pytest.approx(3000.0 * factor, rel=1e-6)
+    """EN 1992-1-1 Fig. 5.7, unbraced cases, from Eq. (5.16) (ideal restraints: no minimum k)."""
+    ideal = with_overrides(EN_RECOMMENDED, k_min_restraint=0.0)
+    assert float(sl.l0_unbraced(3000.0, k1, k2, ideal)) == pytest.approx(3000.0 * factor, rel=1e-6)
+
+
+def test_k_below_the_recommended_minimum_is_raised_to_0_1():
+    """EN 1992-1-1, 5.8.3.2(3), Note: 0.1 is the recommended minimum of k1 and k2.
+
+    Before the fix k = 0 gave l0 = 0.5 l for a braced column; with k = 0.1 at both ends
+    Eq. (5.15) gives 0.5 l (1 + 0.1/0.55) = 0.5909 l, 18 % longer (the issue's "15 % shorter").
+    """
+    assert float(sl.l0_braced(3000.0, 0.0, 0.0)) == pytest.approx(0.5 * 3000.0 * (1.0 + 0.1 / 0.55))
+    assert float(sl.l0_braced(3000.0, 0.0, 0.0)) == pytest.approx(float(sl.l0_braced(3000.0, 0.1, 0.1)))
+    assert float(sl.k_restraint(0.05)) == pytest.approx(0.1)
+    assert float(sl.k_restraint(0.3)) == pytest.approx(0.3)
+    # Eq. (5.16) likewise: k = 0 at both ends gives the value of k = 0.1
+    assert float(sl.l0_unbraced(3000.0, 0.0, 0.0)) == pytest.approx(float(sl.l0_unbraced(3000.0, 0.1, 0.1)))
 
 
 def test_l0_unbraced_eq_5_16_by_hand():
