@@ -35,6 +35,8 @@ def _relaxations(rules: Rules) -> list[tuple[str, Rules]]:
         out.append(("grade", replace(rules, monotone_grade=False)))
     if StepRule(rules.step_rule) is not StepRule.STARTERS:
         out.append(("step", replace(rules, step_rule=StepRule.STARTERS)))
+    if rules.lap_steel_ratio_max is not None:
+        out.append(("lap", replace(rules, lap_steel_ratio_max=None)))
     return out
 
 
@@ -53,11 +55,19 @@ def _blocked_sentence(problem: ScheduleProblem, stack: str, lv_up: str, lv_lo: s
         "step": ("a change of section, which is forbidden," if StepRule(r.step_rule) is StepRule.FORBID_ANY
                  else f"a size step of more than {r.max_step_mm:g} mm per face"),
     }
+    lap = r.lap_steel_ratio_max
+    if culprits == ["lap"]:
+        return (f"stack {stack}: at level {lv_up} every type laps with the bars of every type allowed below it "
+                f"at {lv_lo} with more steel than {lap:g} Ac of the section above "
+                "(As below + As above; EN 1992-1-1, 9.5.2(3))")
+    also = (f" (or a lap with more steel than {lap:g} Ac of the section above, EN 1992-1-1, 9.5.2(3))"
+            if "lap" in culprits else "")
+    culprits = [c for c in culprits if c != "lap"]
     if culprits:
         need = " or ".join(phrases[c] for c in culprits)
-        return f"stack {stack}: level {lv_up} needs {need} than any type allowed below it at {lv_lo}" \
-            if "step" not in culprits or len(culprits) > 1 else \
-            f"stack {stack}: level {lv_up} needs {need} from every type allowed below it at {lv_lo}"
+        return (f"stack {stack}: level {lv_up} needs {need} than any type allowed below it at {lv_lo}{also}"
+                if "step" not in culprits or len(culprits) > 1 else
+                f"stack {stack}: level {lv_up} needs {need} from every type allowed below it at {lv_lo}{also}")
     return (f"stack {stack}: no type at level {lv_up} keeps the continuity rules together with the types "
             f"allowed below it at {lv_lo} (several rules combine)")
 

@@ -144,6 +144,17 @@ def transition(problem: ScheduleProblem, lower: np.ndarray, upper: np.ndarray) -
     Returns:
         ``ok`` (len(lower) x len(upper) booleans: the pair keeps every continuity
         rule) and ``starters`` (the pair is allowed only with separate starter bars).
+
+    Notes:
+        Maximum steel at the lap (EN 1992-1-1, 9.5.2(3), ``rules.lap_steel_ratio_max``,
+        0.08 recommended): the bars of the storey below run up as starters and lap
+        with the upper bars in the upper storey's section, so the pair needs
+        As[lower] + As[upper] <= ratio x Ac[upper]. Where the step rule is STARTERS
+        and the pair needs separate starter bars, the lower bars stop below the
+        floor and the starters repeat the upper bars: the lap then holds
+        2 As[upper], a property of the upper type alone that the per-cell check
+        ("maximum reinforcement at laps", design.member) already limits, so such
+        pairs are not held to the sum.
     """
     t, r = problem.types, problem.rules
     lo = np.asarray(lower, dtype=int)[:, None]
@@ -166,6 +177,11 @@ def transition(problem: ScheduleProblem, lower: np.ndarray, upper: np.ndarray) -
             ok &= ~big
         else:
             starters = big & ok
+    if r.lap_steel_ratio_max is not None:
+        # lower bars lapping with the upper ones in the upper section; pairs with separate starters hold
+        # 2 As[upper] instead (limited per cell, see Notes)
+        lap_ok = t.As[lo] + t.As[up] <= r.lap_steel_ratio_max * t.Ac[up] + EPS
+        ok &= lap_ok | starters
     return ok, starters
 
 

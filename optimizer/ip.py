@@ -4,7 +4,9 @@ One binary per kept candidate (cell, type, orientation); one binary per type
 and per section when types or sections are counted; cumulative ("at least")
 variables for every monotone attribute along each stack; section-change
 indicators for the minimum run; starter-bar indicators where large steps are
-paid for. The formulation is written out in ``docs/integer_program.md``.
+paid for; one row per pair of storeys for the maximum steel at the lap
+(EN 1992-1-1, 9.5.2(3), :func:`_lap_rows`). The formulation is written out in
+``docs/integer_program.md``.
 
 The model is formulated once (:func:`formulate`, rows with readable names) and
 handed to a solver through one of two back-ends:
@@ -509,6 +511,7 @@ def formulate(problem: ScheduleProblem, max_types: int | None = None,
         for i in range(1, len(ch)):
             lo, up = int(ch[i - 1]), int(ch[i])
             pair = f"{sname}_{_clean(p.cell_names[up][1])}_on_{_clean(p.cell_names[lo][1])}"
+            _lap_rows(bld, p, pair, kept_of_cell[lo], kept_of_cell[up], x_col)
             for attr in attrs:
                 if attr not in zcols or not mono.get(attr, True):
                     continue
@@ -604,6 +607,60 @@ def formulate(problem: ScheduleProblem, max_types: int | None = None,
                     bld.row(f"group_{_clean(p.stack_names[ref])}_{_clean(p.stack_names[other])}_{_clean(lv)}"
                             f"_t{key[0]}_o{key[1]}", cols, vals, 0.0, 0.0)
     return bld.finish(n_cand, x_col, y_col, reduction)
+
+
+def _lap_rows(bld: _Builder, p: ScheduleProblem, pair: str, k_lo: np.ndarray, k_up: np.ndarray,
+              x_col: np.ndarray) -> None:
+    """Maximum steel at the lap between two storeys of a stack (EN 1992-1-1, 9.5.2(3)).
+
+    As[lower] + As[upper] <= ratio Ac[upper] for the chosen pair, written as one row over the kept
+    candidates of both cells: sum As x[lo] + sum (As - ratio Ac) x[up] <= 0. It is exact because each
+    cell takes exactly one candidate. The row is left out when no kept pair can break it.
+
+    With the STARTERS step rule a pair whose step needs separate starter bars is exempt (the lap then
+    holds 2 As[upper], limited per cell; see :func:`optimizer.heuristic.transition`). Whether a pair
+    is such a step depends only on the two sections, so there is then one row per upper section S over
+    the lower candidates L_S not stepped from S:
+
+        sum_{L_S} As x[lo] + D sum_{not L_S} x[lo] + sum_{S} (As - ratio Ac) x[up] - M sum_{not S} x[up] <= 0
+
+    with D = min over S of (ratio Ac - As) (a stepped lower candidate under S never binds) and
+    M = max(max As over L_S, D) (an upper candidate of another section never binds). Each is exact on
+    the pairs it describes, and the rows of all upper sections together say exactly the rule.
+    """
+    r = p.rules
+    ratio = r.lap_steel_ratio_max
+    if ratio is None or len(k_lo) == 0 or len(k_up) == 0:
+        return
+    t_ = p.types
+    t_lo, t_up = p.cand_type[k_lo], p.cand_type[k_up]
+    a_lo = t_.As[t_lo]
+    c_up = t_.As[t_up] - ratio * t_.Ac[t_up]  # <= 0 when the upper type alone passes
+    exempt = None
+    if StepRule(r.step_rule) is StepRule.STARTERS:
+        exempt = step_per_face(t_.b[t_lo][:, None], t_.h[t_lo][:, None], t_.b[t_up][None, :],
+                               t_.h[t_up][None, :]) > r.max_step_mm + _EPS
+        if not exempt.any():
+            exempt = None
+    if exempt is None:
+        if a_lo.max() + c_up.max() <= _EPS:
+            return  # cannot bind
+        bld.row(f"lap_As_max_{pair}", np.concatenate([x_col[k_lo], x_col[k_up]]), np.concatenate([a_lo, c_up]),
+                -np.inf, _EPS)
+        return
+    sec_up = t_.section[t_up]
+    for sec in np.unique(sec_up):
+        in_s = sec_up == sec
+        j = int(np.flatnonzero(in_s)[0])
+        held = ~exempt[:, j]  # lower candidates lapping with the bars of section `sec` (the same for all of S)
+        if not held.any() or a_lo[held].max() + c_up[in_s].max() <= _EPS:
+            continue
+        d = float(-c_up[in_s].max())
+        big_m = max(float(a_lo[held].max()), d)
+        val_lo = np.where(held, a_lo, d)
+        val_up = np.where(in_s, c_up, -big_m)
+        bld.row(f"lap_As_max_{pair}_s{int(sec)}", np.concatenate([x_col[k_lo], x_col[k_up]]),
+                np.concatenate([val_lo, val_up]), -np.inf, _EPS)
 
 
 # --------------------------------------------------------------------------------------------
@@ -981,6 +1038,8 @@ def solve(problem: ScheduleProblem, solver: SolverName = "highs", time_limit_s: 
         why = paths.applicable(problem)
         if why is None:
             start = np.asarray(warm_start.cand) if warm_start is not None else None
+            if start is not None and _breaks_rules(problem, start):
+                start = None  # made under other rules: as an incumbent it could prune every valid schedule
             if start is None and (cap_t is not None or r.max_sections is not None or r.max_grades is not None):
                 heur = greedy_start(problem, cap_t, time_limit_s)
                 start = heur.cand if heur is not None else None

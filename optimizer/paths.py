@@ -202,7 +202,11 @@ class PathModel:
                        tuple(np.unique(self.gid[typ]).tolist()))
 
     def column_of(self, ui: int, cand: np.ndarray) -> _Column | None:
-        """The column of a unit's part of a full schedule (None if a candidate was pruned away)."""
+        """The column of a unit's part of a full schedule.
+
+        None if a candidate was pruned away, or if two storeys of the path break a continuity rule of the
+        type tables (e.g. a warm start made under other rules).
+        """
         unit = self.prep.units[ui]
         first = cand[unit.cells[:, 0]]
         o = int(self.problem.cand_orient[first[0]])
@@ -216,6 +220,9 @@ class PathModel:
             if len(hit) == 0:
                 return None
             rows[i] = ch.off[i] + hit[0]
+        typ = ch.typ[rows]
+        if not self.ok_lo[typ[:-1], typ[1:]].all():
+            return None
         return self.column(ch, rows)
 
     def through(self, ui: int, pen: np.ndarray, gpen: np.ndarray) -> tuple[float, list[np.ndarray]]:

@@ -23,8 +23,12 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from enum import StrEnum
+from functools import cached_property
 
 import numpy as np
+
+from design.params import NationalParameters
+from design.sections import bar_area
 
 __all__ = ["Objective", "StepRule", "Rules", "TypeTable", "ScheduleProblem", "Schedule"]
 
@@ -63,11 +67,20 @@ class Rules:
     max_grade_changes: int | None = None  # cap on grade changes going up any one stack
     groups: tuple[tuple[str, ...], ...] = ()  # stacks that take identical types level by level
     pinned: tuple[tuple[int, int], ...] = ()  # (cell index, type index) fixed by the user
+    # As,max / Ac at a lap, EN 1992-1-1, 9.5.2(3): at the foot of a storey the bars of the storey below
+    # (running up as starters) lap with this storey's bars, so As(below) + As(this) <= ratio Ac(this).
+    # Default: the EN recommended value (NationalParameters.rho_max_lap, 0.08); the building's run sets
+    # its parameter set's value. None switches the pair rule off (only for tests of other rules).
+    lap_steel_ratio_max: float | None = NationalParameters.rho_max_lap
 
 
 @dataclass(frozen=True)
 class TypeTable:
-    """Attributes of the column types (arrays of length n_types)."""
+    """Attributes of the column types (arrays of length n_types).
+
+    ``As`` (longitudinal steel) and ``Ac`` (gross concrete area) are derived from the
+    other attributes, for the maximum steel at laps between storeys.
+    """
 
     mark: tuple[str, ...]  # label, e.g. "C12"
     circ: np.ndarray  # bool
@@ -83,6 +96,25 @@ class TypeTable:
 
     def __len__(self) -> int:
         return len(self.mark)
+
+    @cached_property
+    def As(self) -> np.ndarray:
+        """Longitudinal steel area of each type, mm2.
+
+        Rectangles: 4 corner bars of ``corner_dia`` and 2 (nb - 2) + 2 (nh - 2)
+        bars of ``dia``; circles: ``nb`` bars of ``dia``.
+        """
+        circ = np.asarray(self.circ, dtype=bool)
+        nb = np.asarray(self.nb, dtype=float)
+        nh = np.asarray(self.nh, dtype=float)
+        rect = 4.0 * bar_area(self.corner_dia) + (2.0 * (nb - 2.0) + 2.0 * (nh - 2.0)) * bar_area(self.dia)
+        return np.where(circ, nb * bar_area(self.dia), rect)
+
+    @cached_property
+    def Ac(self) -> np.ndarray:
+        """Gross concrete area of each type (the Ac of EN 1992-1-1, 9.5.2(3)), mm2."""
+        b = np.asarray(self.b, dtype=float)
+        return np.where(np.asarray(self.circ, dtype=bool), np.pi * b**2 / 4.0, b * np.asarray(self.h, dtype=float))
 
 
 @dataclass(frozen=True)

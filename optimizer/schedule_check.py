@@ -8,6 +8,8 @@ readable sentence naming the stack and the levels.
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
 from optimizer.problem import Schedule, ScheduleProblem, StepRule
@@ -35,6 +37,27 @@ def _stack_cells(problem: ScheduleProblem) -> dict[int, list[int]]:
 
 def _describe(problem: ScheduleProblem, t: int) -> str:
     return problem.types.mark[t]
+
+
+def _bar_set(problem: ScheduleProblem, t: int) -> tuple[str, float]:
+    """Bar notation (e.g. ``12H32`` or ``4H32+8H25``) and total bar area (mm2) of type t, from its counts."""
+    T = problem.types
+    dia, corner = float(T.dia[t]), float(T.corner_dia[t])
+    if bool(T.circ[t]):
+        n = int(T.nb[t])
+        return f"{n}H{dia:g}", n * math.pi * dia * dia / 4.0
+    n = 2 * int(T.nb[t]) + 2 * int(T.nh[t]) - 4
+    area = 4 * math.pi * corner * corner / 4.0 + (n - 4) * math.pi * dia * dia / 4.0
+    if abs(corner - dia) < _TOL or n == 4:
+        return f"{n}H{corner if n == 4 else dia:g}", area
+    return f"4H{corner:g}+{n - 4}H{dia:g}", area
+
+
+def _concrete_area(problem: ScheduleProblem, t: int) -> float:
+    """Gross concrete area of type t, mm2."""
+    T = problem.types
+    b = float(T.b[t])
+    return math.pi * b * b / 4.0 if bool(T.circ[t]) else b * float(T.h[t])
 
 
 def check_schedule(problem: ScheduleProblem, schedule: Schedule | np.ndarray) -> list[str]:
@@ -111,13 +134,27 @@ def check_schedule(problem: ScheduleProblem, schedule: Schedule | np.ndarray) ->
             if r.monotone_grade and T.fck[t] > T.fck[lo] + _TOL:
                 out.append(f"{where}: a higher concrete grade than below")
             rule = StepRule(r.step_rule)
+            step = max(abs(float(T.b[lo]) - float(T.b[t])), abs(float(T.h[lo]) - float(T.h[t]))) / 2.0
             if rule is StepRule.FORBID_ANY:
                 if int(T.section[t]) != int(T.section[lo]):
                     out.append(f"{where}: the section changes, which is forbidden")
             elif rule is StepRule.LIMIT:
-                step = max(abs(float(T.b[lo]) - float(T.b[t])), abs(float(T.h[lo]) - float(T.h[t]))) / 2.0
                 if step > r.max_step_mm + _TOL:
                     out.append(f"{where}: a step of {step:g} mm per face exceeds {r.max_step_mm:g} mm")
+            # EN 1992-1-1, 9.5.2(3): the bars below lap with this storey's bars in this storey's section;
+            # with separate starter bars at a large step the lap holds twice the upper bars (a per-cell check)
+            separate_starters = rule is StepRule.STARTERS and step > r.max_step_mm + _TOL
+            if r.lap_steel_ratio_max is not None and not separate_starters:
+                bars_lo, as_lo = _bar_set(p, lo)
+                bars_up, as_up = _bar_set(p, t)
+                ac_up = _concrete_area(p, t)
+                limit = r.lap_steel_ratio_max * ac_up
+                if as_lo + as_up > limit + _TOL:
+                    out.append(f"{where}: at the lap at the foot of level {lv_up} the bars below ({bars_lo}, "
+                               f"{as_lo:,.0f} mm2) and above ({bars_up}, {as_up:,.0f} mm2) give "
+                               f"{as_lo + as_up:,.0f} mm2, more than {r.lap_steel_ratio_max:g} Ac = "
+                               f"{r.lap_steel_ratio_max:g} x {ac_up:,.0f} = {limit:,.0f} mm2 of the section "
+                               "above (EN 1992-1-1, 9.5.2(3))")
         if r.min_run > 1:
             for j, (_sec, first) in enumerate(sections_run[:-1]):
                 length = sections_run[j + 1][1] - first

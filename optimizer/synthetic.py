@@ -47,6 +47,9 @@ class SyntheticSpec:
         counts: bars per face in the catalogue.
         sizes_mm: section sizes (square side, or the short side of rectangles), mm.
         load_kn_per_level: mean design axial load added per storey at an interior stack, kN.
+        steel_ratio: range of As / Ac kept in the catalogue (default: 0.002 to 0.04, EN 1992-1-1, 9.5.2 (2)
+            and (3), crude); a narrow high range such as (0.02, 0.04) makes heavily reinforced catalogues, in
+            which the maximum steel at laps between storeys of different sections binds.
     """
 
     n_stacks: int = 3
@@ -64,6 +67,7 @@ class SyntheticSpec:
     counts: tuple[int, ...] = (2, 3, 4, 5, 6)
     sizes_mm: tuple[float, ...] = (250.0, 300.0, 350.0, 400.0, 450.0, 500.0, 550.0, 600.0, 700.0, 800.0)
     load_kn_per_level: float = 600.0
+    steel_ratio: tuple[float, float] = (0.002, 0.04)
 
 
 def _bar_area(dia: np.ndarray) -> np.ndarray:
@@ -91,7 +95,7 @@ def synthetic_catalogue(spec: SyntheticSpec, rng: np.random.Generator) -> tuple[
                     n_bars = 2 * n + 2 if circ else 2 * n + 2 * (n if h == b else n + 1) - 4
                     ac = np.pi * b * b / 4.0 if circ else b * h
                     rho = n_bars * np.pi * dia**2 / 4.0 / ac
-                    if not 0.002 <= rho <= 0.04:  # EN 1992-1-1, 9.5.2 (2) and (3), crude
+                    if not spec.steel_ratio[0] <= rho <= spec.steel_ratio[1]:
                         continue
                     for fck in spec.grades:
                         nb = 2 * n + 2 if circ else n

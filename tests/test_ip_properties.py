@@ -43,6 +43,7 @@ spec_st = st.builds(
     symmetry=st.booleans(),
     short_fraction=st.sampled_from([0.0, 0.5]),
     load_kn_per_level=st.sampled_from([300.0, 600.0, 1500.0]),
+    steel_ratio=st.sampled_from([(0.002, 0.04), (0.025, 0.04)]),  # the second: laps between storeys bind
 )
 
 

@@ -31,6 +31,11 @@ from optimizer.problem import Objective, Rules, ScheduleProblem, StepRule, TypeT
 from optimizer.schedule_check import check_schedule
 from optimizer.synthetic import SyntheticSpec, synthetic_problem
 
+# Heavily reinforced synthetic catalogues (As / Ac from 2.5 % to 4 %, large bars, close sizes, heavy loads):
+# large sections full of steel under smaller ones, where the maximum steel at laps binds.
+HEAVY = dict(steel_ratio=(0.025, 0.04), sizes_mm=(250.0, 300.0, 350.0, 400.0, 450.0, 500.0, 550.0, 600.0),
+             dias=(20.0, 25.0, 32.0, 40.0), counts=(2, 3, 4, 5), load_kn_per_level=1200.0)
+
 # --------------------------------------------------------------------------------------------
 # brute force: the rules restated literally
 # --------------------------------------------------------------------------------------------
@@ -51,8 +56,33 @@ def bf_chains(p: ScheduleProblem) -> dict[int, list[int]]:
     return out
 
 
+def bf_bar_area(p: ScheduleProblem, t: int) -> float:
+    """Longitudinal bar area of type t, mm2, counted bar by bar (corner bars first on rectangles)."""
+    T = p.types
+    if bool(T.circ[t]):
+        dias = [float(T.dia[t])] * int(T.nb[t])
+    else:
+        n_bars = 2 * int(T.nb[t]) + 2 * int(T.nh[t]) - 4
+        dias = [float(T.corner_dia[t])] * 4 + [float(T.dia[t])] * (n_bars - 4)
+    return sum(math.pi * d * d / 4.0 for d in dias)
+
+
+def bf_lap_ok(p: ScheduleProblem, lo: int, up: int) -> bool:
+    """EN 1992-1-1, 9.5.2(3) at the lap at the foot of the upper storey: As below + As above <= ratio Ac above."""
+    ratio = p.rules.lap_steel_ratio_max
+    if ratio is None:
+        return True
+    T = p.types
+    d = float(T.b[up])
+    ac_up = math.pi * d * d / 4.0 if bool(T.circ[up]) else d * float(T.h[up])
+    return bf_bar_area(p, lo) + bf_bar_area(p, up) <= ratio * ac_up + 1e-6
+
+
 def bf_pair(p: ScheduleProblem, lo: int, up: int) -> tuple[bool, bool]:
-    """(may type ``up`` stand on type ``lo``, does it need separate starter bars)."""
+    """(may type ``up`` stand on type ``lo``, does it need separate starter bars).
+
+    With separate starter bars (STARTERS and a large step) the lap holds the starters, which repeat the upper
+    bars, and the upper bars: not the sum with the bars below, so bf_lap_ok does not apply there."""
     T, r = p.types, p.rules
     if r.monotone_sections:
         if bool(T.circ[lo]) != bool(T.circ[up]):
@@ -68,13 +98,13 @@ def bf_pair(p: ScheduleProblem, lo: int, up: int) -> tuple[bool, bool]:
         return False, False
     rule = StepRule(r.step_rule)
     if rule is StepRule.FORBID_ANY:
-        return bool(T.section[up] == T.section[lo]), False
+        return bool(T.section[up] == T.section[lo]) and bf_lap_ok(p, lo, up), False
     step = max(abs(float(T.b[lo]) - float(T.b[up])), abs(float(T.h[lo]) - float(T.h[up]))) / 2.0
     if step > r.max_step_mm:
         if rule is StepRule.LIMIT:
             return False, False
         return True, True
-    return True, False
+    return bf_lap_ok(p, lo, up), False
 
 
 def bf_grade_id(p: ScheduleProblem) -> dict[float, int]:
@@ -363,12 +393,14 @@ def test_forward_equals_numpy_dynamic_program(i: int) -> None:
 
 
 def price_problem(i: int) -> ScheduleProblem:
-    """Problem i of 12: 3 stacks of 3 or 4 storeys, at most 8 types, every step rule and minimum run;
-    some with free orientation, symmetric stacks (merged, multiplicity > 1), a group, a pinned cell."""
+    """Problem i of 16: 3 stacks of 3 or 4 storeys, at most 8 types, every step rule and minimum run;
+    some with free orientation, symmetric stacks (merged, multiplicity > 1), a group, a pinned cell;
+    12 to 15 on heavily reinforced catalogues (HEAVY), where the maximum steel at laps binds."""
     min_run = 1 + i % 3
-    rule = STEP_RULES[(i // 3) % 3] if i < 9 else StepRule.STARTERS
+    rule = STEP_RULES[(i // 3) % 3] if i < 9 else (StepRule.STARTERS if i < 12 else STEP_RULES[i % 2])
     spec = SyntheticSpec(n_stacks=3, n_levels=3 + i % 2, n_types=8, seed=2000 + i, rectangles=i % 2 == 0,
-                         circles=i % 3 == 2, free_fraction=(0.0, 0.5, 1.0)[i % 3], symmetry=i % 4 != 3)
+                         circles=i % 3 == 2, free_fraction=(0.0, 0.5, 1.0)[i % 3], symmetry=i % 4 != 3,
+                         **(HEAVY if i >= 12 else {}))
     p = synthetic_problem(spec)
     pinned = ()
     if i % 5 == 4:
@@ -387,7 +419,7 @@ def random_penalties(p: ScheduleProblem, rng: np.random.Generator) -> tuple[np.n
     return pen, gpen
 
 
-@pytest.mark.parametrize("i", range(12))
+@pytest.mark.parametrize("i", range(16))
 def test_price_equals_enumeration(i: int) -> None:
     """Truth: brute-force enumeration of every buildable path of the unit (bf_unit_paths, rules restated).
 
@@ -428,7 +460,7 @@ def test_price_equals_enumeration(i: int) -> None:
             assert close(val, col.cost + sum(pen[t] for t in col.types) + sum(gpen[g] for g in col.grades))
 
 
-@pytest.mark.parametrize("i", range(12))
+@pytest.mark.parametrize("i", range(16))
 def test_through_equals_enumeration(i: int) -> None:
     """Truth: brute-force enumeration (bf_unit_paths). For every row of every chain: with min_run 1 (or
     FORBID_ANY, no run states) through() is exactly the least penalised cost over the unit's paths in that
@@ -479,6 +511,12 @@ COUPLED = [
     ("merged_stacks", Rules(price_per_type=25.0, max_sections=3), dict(symmetry=True, n_stacks=6, n_levels=3)),
     ("everything", Rules(price_per_type=10.0, price_per_section=10.0, max_grades=2, min_run=2),
      dict(rectangles=True, free_fraction=0.5)),
+    # heavily reinforced catalogues: the maximum steel at laps (EN 1992-1-1, 9.5.2(3)) binds
+    ("heavy_max_types", Rules(max_types=3), dict(HEAVY)),
+    ("heavy_price_min_run", Rules(price_per_type=30.0, min_run=2), dict(HEAVY, rectangles=True)),
+    ("heavy_starters", Rules(step_rule=StepRule.STARTERS, max_step_mm=75.0, max_types=3), dict(HEAVY)),
+    ("heavy_circles_free", Rules(max_types=4, max_step_mm=150.0), dict(HEAVY, circles=True, rectangles=True,
+                                                                       free_fraction=1.0)),
 ]
 
 
@@ -487,7 +525,7 @@ def coupled_problem(case: int, seed: int) -> ScheduleProblem:
     kw = dict(n_stacks=3, n_levels=4, n_types=8, seed=seed * 31 + case)
     kw.update(opts)
     objective = (Objective.STEEL, Objective.COST)[seed % 2]
-    if name == "starters":
+    if name.endswith("starters"):
         objective = Objective.STEEL
     p = synthetic_problem(SyntheticSpec(**kw), objective=objective)
     if rules is None:  # pin the middle cell of the first stack to a type that is not its lightest
