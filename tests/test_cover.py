@@ -8,6 +8,7 @@ import pytest
 from design import cover as cv
 from design.cover import ExposureClass as X
 from design.params import EN_RECOMMENDED, with_overrides
+from design.results import CheckKind
 
 # EN 1992-1-1 Table 4.4N (reinforcing steel), cmin,dur in mm (recalled from memory):
 #         X0  XC1 XC2/3 XC4 XD1/XS1 XD2/XS2 XD3/XS3
@@ -103,3 +104,131 @@ def test_bad_input_raises():
         cv.cmin_dur("XC9", 4)
     with pytest.raises(ValueError, match="mm"):
         cv.cmin_b(-8.0)
+
+
+# --------------------------------------------------------------------------
+# XF / XA classes and combinations (EN 1992-1-1 Table 4.1; Table 4.4N covers X0, XC, XD, XS only)
+# --------------------------------------------------------------------------
+
+
+def test_table_4_1_has_freeze_thaw_and_chemical_classes():
+    names = {c.value for c in X}
+    assert {"XF1", "XF2", "XF3", "XF4", "XA1", "XA2", "XA3"} <= names
+    assert len(names) == 18  # X0, XC1-4, XD1-3, XS1-3, XF1-4, XA1-3
+
+
+def test_exposure_parse_and_name():
+    e = cv.Exposure.parse("xc4 + XF1")
+    assert e.classes == (X.XC4, X.XF1) and e.name == "XC4+XF1" and str(e) == "XC4+XF1"
+    assert e.cover_classes == (X.XC4,)
+    assert cv.Exposure.parse("XC3+XC3").classes == (X.XC3,)  # repeated class kept once
+    assert cv.parse_exposure(X.XD1) == cv.Exposure((X.XD1,))
+    assert cv.parse_exposure(e) is e
+
+
+@pytest.mark.parametrize(
+    ("text", "match"),
+    [
+        ("XC4+XF9", "'XF9' is not an exposure class"),
+        ("XC4+", "'' is not an exposure class"),
+        ("XF1", "accompanying carbonation or chloride class"),
+        ("XA2+XF3", "accompanying carbonation or chloride class"),
+        ("X0+XF1", "X0"),
+    ],
+)
+def test_exposure_errors_name_the_bad_part(text, match):
+    with pytest.raises(ValueError, match=match):
+        cv.Exposure.parse(text)
+
+
+def test_single_class_functions_refuse_xf_xa_and_combinations():
+    with pytest.raises(ValueError, match="no column in EN 1992-1-1 Table 4.4N"):
+        cv.cmin_dur(X.XF1, 4)
+    with pytest.raises(ValueError, match="'XC4\\+XA1'"):
+        cv.structural_class(X.XA1, 30.0)
+    with pytest.raises(ValueError, match="combination"):
+        cv.cmin_dur("XC4+XF1", 4)
+    # A one-class Exposure is accepted where a single class is expected.
+    assert float(cv.cmin_dur(cv.Exposure.parse("XC3"), 4)) == 25.0
+
+
+@pytest.mark.parametrize(
+    ("text", "fck", "dur", "s_class", "governing"),
+    [
+        # XC4 + XF1, C30/37 (< C40/50): S4, Table 4.4N XC4 column: 30 mm; XF1 adds nothing.
+        ("XC4+XF1", 30.0, 30.0, 4, "XC4"),
+        # XC3 + XD1, C40/50: XC3 reaches C35/45 -> S3 -> 20; XD1 reaches C40/50 -> S3 -> 30. Max 30 (XD1).
+        ("XC3+XD1", 40.0, 30.0, 3, "XD1"),
+        # XC4 + XS1 + XF2, C35/45: XC4 S4 -> 30; XS1 (C40/50 not reached) S4 -> 35; max 35 (XS1).
+        ("XC4+XS1+XF2", 35.0, 35.0, 4, "XS1"),
+        # A single class gives the single-class value: XC3, C30/37, S4 -> 25.
+        ("XC3", 30.0, 25.0, 4, "XC3"),
+    ],
+)
+def test_cmin_dur_for_combinations(text, fck, dur, s_class, governing):
+    """cmin,dur = largest Table 4.4N value over the classes the table covers (structural class per class)."""
+    r = cv.cmin_dur_for(text, fck)
+    assert float(r.cmin_dur) == pytest.approx(dur)
+    assert int(r.s_class) == s_class and str(r.governing) == governing
+
+
+def test_cmin_dur_for_broadcasts_over_fck():
+    # XC3 + XD1 at C30 (both S4: 25, 35), C35 (XC3 S3 20, XD1 S4 35), C40 (20, 30).
+    r = cv.cmin_dur_for("XC3+XD1", [30.0, 35.0, 40.0])
+    np.testing.assert_allclose(r.cmin_dur, [35.0, 35.0, 30.0])
+    assert list(r.governing) == ["XD1", "XD1", "XD1"]
+
+
+def test_check_cover_accepts_combinations_and_keeps_single_note():
+    (link, _) = cv.check_cover(35.0, 8.0, 32.0, X.XC3, 30.0)
+    assert link.note == "XC3, S4, cmin,dur = 25 mm"
+    # XC4 + XF1, C30/37: cmin,dur = 30 -> links H8: cnom = 30 + 10 = 40 > 35 -> fails.
+    link, main = cv.check_cover(35.0, 8.0, 32.0, "XC4+XF1", 30.0)
+    assert link.demand == pytest.approx(40.0) and not link.ok
+    assert "XC4+XF1 (cover from XC4)" in link.note
+
+
+# --------------------------------------------------------------------------
+# Annex E (informative), Table E.1N
+# --------------------------------------------------------------------------
+
+# EN 1992-1-1:2004 Table E.1N, indicative strength classes (fck, MPa). Values recalled from memory
+# and cross-checked against a public secondary reproduction of the table (a durability module in a
+# public repository lists the same values, with XF4 absent from the table); not read from the
+# standard itself. XF4 has no column in Table E.1N.
+TABLE_E_1N = {
+    "X0": 12.0,  # C12/15
+    "XC1": 20.0, "XC2": 25.0, "XC3": 25.0, "XC4": 30.0,  # C20/25, C25/30 (XC2, XC3), C30/37
+    "XD1": 30.0, "XD2": 30.0, "XD3": 35.0,  # C30/37, C35/45
+    "XS1": 30.0, "XS2": 35.0, "XS3": 35.0,  # C30/37, C35/45
+    "XF1": 30.0, "XF2": 25.0, "XF3": 30.0,  # C30/37, C25/30, C30/37
+    "XA1": 30.0, "XA2": 30.0, "XA3": 35.0,  # C30/37, C35/45
+}
+
+
+@pytest.mark.parametrize(("cls", "fck"), sorted(TABLE_E_1N.items()))
+def test_table_E_1N_rows(cls, fck):
+    """EN 1992-1-1 Annex E, Table E.1N, one exposure class per case."""
+    assert cv.INDICATIVE_FCK_TABLE_E1N[X(cls)] == pytest.approx(fck)
+    if X(cls).in_table_4_4N:
+        assert cv.indicative_fck(cls) == pytest.approx(fck)
+    else:  # XF/XA need their carbonation class; XC1 (C20/25) never governs them here
+        assert cv.indicative_fck(f"XC1+{cls}") == pytest.approx(max(fck, 20.0))
+
+
+def test_xf4_is_not_in_table_E_1N():
+    assert X.XF4 not in cv.INDICATIVE_FCK_TABLE_E1N
+    r = cv.check_indicative_strength("XC4+XF4", 30.0)
+    assert r.demand == pytest.approx(30.0)  # from XC4 only
+    assert "XF4 not in Table E.1N" in r.note
+
+
+def test_check_indicative_strength():
+    # XD3 + XF2: max(C35/45, C25/30) = C35/45; C32/40 fails, C40/50 passes.
+    r = cv.check_indicative_strength("XD3+XF2", 32.0)
+    assert r.name == "indicative strength class (Annex E)" and r.kind is CheckKind.DURABILITY
+    assert (r.demand, r.capacity) == pytest.approx((35.0, 32.0))
+    assert not r.ok and "C35/45 (from XD3)" in r.note
+    assert cv.check_indicative_strength(X.XC1, 20.0).ok
+    with pytest.raises(ValueError, match="fck"):
+        cv.check_indicative_strength("XC1", 0.0)
