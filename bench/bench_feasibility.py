@@ -17,7 +17,7 @@ import numpy as np
 from design.member import ColumnActions, SectionData, check_column
 from design.resistance import SectionBatch
 from optimizer.catalogue import CatalogueSpec, build_catalogue
-from optimizer.feasibility import _check, _settings_for, cell_table, feasibility
+from optimizer.feasibility import cell_table, check_pairs, check_settings_for, feasibility
 from optimizer.generate import generate_tower
 from optimizer.takedown import scenario_actions
 
@@ -57,7 +57,7 @@ def main() -> None:
         check_column(cat.designs[t], ColumnActions(
             NEd=ct.NEd[c], My_top=ct.My_top[c], My_bot=ct.My_bot[c], Mz_top=ct.Mz_top[c], Mz_bot=ct.Mz_bot[c],
             l0y=ct.l0y[c], l0z=ct.l0z[c], l_clear=ct.l_clear[c], l0_fi=ct.l0_fi[c]),
-            _settings_for(ct.exposure[c], ct.fire[c], sc.materials.aggregate_mm), sc.params)
+            check_settings_for(sc, ct.exposure[c], ct.fire[c]), sc.params)
     t_single = (time.perf_counter() - t0) / 50
     print(f"  single-column check           {1e3 * t_single:8.2f} ms per pair; the matrix is "
           f"{t_single * rate:,.0f}x faster per pair")
@@ -68,9 +68,9 @@ def main() -> None:
     worst_res = 0.0
     resist = ("bending about y", "bending about z", "biaxial interaction")
     for c, t in sample:
-        st = _settings_for(ct.exposure[c], ct.fire[c], sc.materials.aggregate_mm)
-        fast, _ = _check(data, np.array([c]), np.array([t]), ct, 0, st, sc.params, fast=True)
-        exact, _ = _check(data, np.array([c]), np.array([t]), ct, 0, st, sc.params, fast=False)
+        st = check_settings_for(sc, ct.exposure[c], ct.fire[c])
+        fast, _ = check_pairs(data, np.array([c]), np.array([t]), ct, 0, st, sc.params, fast=True)
+        exact, _ = check_pairs(data, np.array([c]), np.array([t]), ct, 0, st, sc.params, fast=False)
         uf, ue = float(fast.utilisation[0]), float(exact.utilisation[0])
         agree += (uf <= 1.0) == (ue <= 1.0)
         if np.isfinite(ue) and ue > 0.05 and np.isfinite(uf):

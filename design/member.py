@@ -42,9 +42,9 @@ from typing import Literal
 import numpy as np
 from numpy.typing import ArrayLike
 
-from design import biaxial, cover, creep, detailing, fire, laps, slenderness
+from design import biaxial, cover, creep, detailing, fire, laps, shear, slenderness
 from design.biaxial import SectionShape
-from design.cover import ExposureClass
+from design.cover import Exposure, ExposureClass, parse_exposure
 from design.creep import CreepSettings
 from design.fire import MU_FI_DEFAULT, FireRating
 from design.params import EN_RECOMMENDED, NationalParameters
@@ -95,7 +95,7 @@ class CheckSettings:
         min_eccentricity: application of 6.1(4) under biaxial bending.
         biaxial: method that decides the biaxial check.
         exact_biaxial: compute the direction-exact utilisation (costly).
-        exposure: exposure class for the cover check (None: not checked).
+        exposure: exposure classes for the cover and Annex E checks, e.g. "XC4+XF1" (None: not checked).
         fire: standard fire resistance (None: not checked).
         mu_fi: degree of utilisation in fire (0.7 is the conservative value
             EN 1992-1-2 5.3.2(3) allows).
@@ -118,7 +118,7 @@ class CheckSettings:
     min_eccentricity: MinEccentricity = MinEccentricity.BOTH_AXES
     biaxial: BiaxialMethod = BiaxialMethod.EQ_5_39
     exact_biaxial: bool = False
-    exposure: ExposureClass | None = None
+    exposure: Exposure | ExposureClass | str | None = None
     fire: FireRating | None = None
     mu_fi: float = MU_FI_DEFAULT
     aggregate: float = 20.0
@@ -137,7 +137,7 @@ class CheckSettings:
         object.__setattr__(self, "min_eccentricity", MinEccentricity(self.min_eccentricity))
         object.__setattr__(self, "biaxial", BiaxialMethod(self.biaxial))
         if self.exposure is not None:
-            object.__setattr__(self, "exposure", ExposureClass(self.exposure))
+            object.__setattr__(self, "exposure", parse_exposure(self.exposure))
         if self.fire is not None:
             object.__setattr__(self, "fire", FireRating(self.fire))
         if self.biaxial is BiaxialMethod.EXACT:
@@ -183,7 +183,12 @@ class ColumnActions:
             (5.8.8.2); l0 is the caller's (Eq. (5.16)).
         As_below: area of the bars lapping into the foot of this storey from the
             storey below, mm2 (9.5.2(3)); None: the same bars as this storey.
-        V_Ed: shear force given besides that of the end moments, N (>= 0).
+        V_Ed: shear force given besides that of the end moments, N (>= 0), added in
+            both directions.
+        s_link: link spacing provided over the column, mm; None: scl,tmax of
+            9.5.3(3) rounded down to 25 mm (the catalogue's rule).
+        s_link_zone: link spacing provided near beams and slabs and at laps, mm;
+            None: 0.6 scl,tmax (9.5.3(4)) rounded down to 25 mm.
     """
 
     NEd: ArrayLike
@@ -201,6 +206,8 @@ class ColumnActions:
     braced: bool = True
     As_below: ArrayLike | None = None
     V_Ed: ArrayLike | None = None
+    s_link: ArrayLike | None = None
+    s_link_zone: ArrayLike | None = None
 
 
 @dataclass
@@ -231,6 +238,10 @@ class SectionData:
     extra_ties: np.ndarray
     a_fire_min: np.ndarray  # smallest axis distance of any bar to its nearest face, mm (EN 1992-1-2, 5.2)
     a_fire_mean: np.ndarray  # area-weighted mean axis distance am, mm (EN 1992-1-2, Eq. (5.5))
+    Asl_y: np.ndarray  # bars of the tension face for bending about y (shear along z), mm2 (6.2.2(1))
+    Asl_z: np.ndarray  # bars of the tension face for bending about z (shear along y), mm2
+    dv_y: np.ndarray  # effective depth to that face's bars, shear along z, mm
+    dv_z: np.ndarray  # effective depth to that face's bars, shear along y, mm
 
     @classmethod
     def of(cls, batch: SectionBatch) -> SectionData:
@@ -244,6 +255,7 @@ class SectionData:
         iz = np.where(circ, b / 4.0, b / np.sqrt(12.0))
         ties = [extra_ties(s) for s in secs]
         axis = [_axis_distances(s) for s in secs]
+        tension = np.array([_tension_face(s) for s in secs], dtype=float).reshape(-1, 4)
         return cls(
             batch=batch, circ=circ, b=b, h=h,
             Ac=np.array([s.Ac for s in secs]), As=np.array([s.As for s in secs]),
@@ -260,7 +272,29 @@ class SectionData:
             min_gap=np.array([float(np.min(s.clear_spacings())) for s in secs]),
             extra_ties=np.array(ties),
             a_fire_min=np.array([a for a, _ in axis]), a_fire_mean=np.array([m for _, m in axis]),
+            Asl_y=tension[:, 0], Asl_z=tension[:, 1], dv_y=tension[:, 2], dv_z=tension[:, 3],
         )
+
+
+def _tension_face(section: RectSection | CircSection) -> tuple[float, float, float, float]:
+    """(Asl about y, Asl about z, d about y, d about z) for the shear resistance VRd,c, mm2 and mm.
+
+    EN 1992-1-1, 6.2.2(1): Asl is the tensile reinforcement. For bending about y
+    the tension face is a b-face (bars at the extreme z); about z an h-face.
+    A circle takes the bars beyond half the bar radius on the tension side
+    (common practice, about a third of the bars) and d to the extreme bar.
+    """
+    y, z, dia = section.bar_coords()
+    area = np.pi * dia**2 / 4.0
+    if isinstance(section, CircSection):
+        r = section.bar_radius
+        asl = float(area[z <= -0.5 * r + 1e-6].sum())
+        d = section.diameter / 2.0 + r
+        return asl, asl, d, d
+    on_y = np.isclose(z, z.min(), atol=20.0)
+    on_z = np.isclose(y, y.min(), atol=20.0)
+    return (float(area[on_y].sum()), float(area[on_z].sum()),
+            section.h / 2.0 + float(np.abs(z[on_y]).max()), section.b / 2.0 + float(np.abs(y[on_z]).max()))
 
 
 def _axis_distances(section: RectSection | CircSection) -> tuple[float, float]:
@@ -532,7 +566,8 @@ def check_members(
     NEd = _b(actions.NEd, n_pairs)
     g = {k: getattr(data, k)[idx] for k in (
         "circ", "b", "h", "Ac", "As", "iy", "iz", "dy", "dz", "fck", "fcd", "fyk", "fyd", "Es",
-        "cover", "link", "dia_max", "dia_min", "n_bars", "min_gap", "extra_ties", "a_fire_min", "a_fire_mean")}
+        "cover", "link", "dia_max", "dia_min", "n_bars", "min_gap", "extra_ties", "a_fire_min", "a_fire_mean",
+        "Asl_y", "Asl_z", "dv_y", "dv_z")}
     l0y, l0z = _b(actions.l0y, n_pairs), _b(actions.l0z, n_pairs)
     if np.any(l0y <= 0) or np.any(l0z <= 0):
         msg = "effective lengths l0y, l0z must be positive (mm)"
@@ -643,10 +678,14 @@ def check_members(
     checks.append(CheckColumn("slenderness within range of method", "EN 1992-1-1, 5.8.8 (limit: common practice)",
                               "-", lam_max, np.full(n_pairs, settings.slenderness_cap), ones,
                               f"lambda above {settings.slenderness_cap:g} is flagged"))
+    s_link, s_zone = _link_spacing(g, actions, n_pairs, params)
+    values["s_link"], values["s_link_zone"] = s_link, s_zone
+    checks += _shear_checks(g, NEd, moments, l0y, l0z, l_clear, braced, s_link, actions, values, params)
     checks += [dataclasses.replace(c, kind=CheckKind.DETAILING) for c in _detailing_checks(g, NEd, settings, params,
                                                                              _b(actions.As_below, n_pairs))]
+    checks += _link_spacing_checks(g, s_link, s_zone, params)
     if settings.exposure is not None:
-        checks += [dataclasses.replace(c, kind=CheckKind.COVER) for c in _cover_checks(g, settings, params)]
+        checks += _cover_checks(g, settings, params)
     if settings.fire is not None:
         l0_fi = _b(actions.l0_fi, n_pairs)
         values["l0_fi"] = np.maximum(l0y, l0z) if l0_fi is None else l0_fi
@@ -679,6 +718,73 @@ def _creep(g: dict, actions: ColumnActions, settings: CheckSettings, n_pairs: in
         "phi_ef": phi_ef, "phi_inf": phi_inf, "h0": h0, "M0Eqp_ratio": ratio,
         "phi_ef_source": np.full(n_pairs, source), "creep_conditions": np.full(n_pairs, settings.creep.describe()),
     }
+
+
+def _link_spacing(g: dict, actions: ColumnActions, n_pairs: int, params: NationalParameters):
+    """Link spacing provided (general, and near beams/slabs and laps), mm (9.5.3(3), (4))."""
+    b_min = np.minimum(g["b"], g["h"])
+    smax = detailing.scl_tmax(g["dia_min"], b_min, False, params)
+    szone = detailing.scl_tmax(g["dia_min"], b_min, True, params)
+    s = _b(actions.s_link, n_pairs)
+    sz = _b(actions.s_link_zone, n_pairs)
+    s = 25.0 * np.floor(smax / 25.0 + 1e-9) if s is None else s
+    sz = 25.0 * np.floor(szone / 25.0 + 1e-9) if sz is None else sz
+    if np.any(s <= 0) or np.any(sz <= 0):
+        msg = "link spacings s_link, s_link_zone must be positive (mm)"
+        raise ValueError(msg)
+    return s, sz
+
+
+def _link_spacing_checks(g: dict, s: np.ndarray, sz: np.ndarray, params: NationalParameters) -> list[CheckColumn]:
+    b_min = np.minimum(g["b"], g["h"])
+    ones = np.ones(len(s), dtype=bool)
+    return [
+        CheckColumn("link spacing", "EN 1992-1-1, 9.5.3(3)", "mm", s,
+                    detailing.scl_tmax(g["dia_min"], b_min, False, params), ones,
+                    "s <= scl,tmax = min(20 phi_min, b_min, 400 mm)", kind=CheckKind.DETAILING),
+        CheckColumn("link spacing near beams, slabs and laps", "EN 1992-1-1, 9.5.3(4)", "mm", sz,
+                    detailing.scl_tmax(g["dia_min"], b_min, True, params), ones,
+                    "s <= 0.6 scl,tmax over the larger column dimension next to a beam or slab and at laps",
+                    kind=CheckKind.DETAILING),
+    ]
+
+
+def _shear_checks(g: dict, NEd: np.ndarray, moments: dict, l0y: np.ndarray, l0z: np.ndarray,
+                  l_clear: np.ndarray | None, braced: np.ndarray, s_link: np.ndarray, actions: ColumnActions,
+                  values: dict, params: NationalParameters) -> list[CheckColumn]:
+    """Shear from the end moments in each direction against VRd,c, or the links and the strut.
+
+    EN 1992-1-1, 6.2.2(1) Eq. (6.2), 6.2.3(3) Eqs. (6.8), (6.9). VEd = (|M_top| + |M_bot|)/l plus any
+    shear given (the sum of the end moments whatever their signs: on the safe side). Where the clear
+    height is not known, l = l0 for braced members (l0 <= l) and l0/2 for unbraced ones (l0 <= 2 l).
+    The links (two legs of the link bar, at the general spacing) are checked where VEd > VRd,c.
+    """
+    n_pairs = len(NEd)
+    V_given = np.zeros(n_pairs) if actions.V_Ed is None else np.abs(_b(actions.V_Ed, n_pairs))
+    out = []
+    fywd = g["fyd"]  # links of the same steel as the bars (common practice)
+    Asw = 2.0 * np.pi * g["link"] ** 2 / 4.0
+    for along, moment, bw, dv, asl, l0 in (("z", "My", g["b"], g["dv_y"], g["Asl_y"], l0y),
+                                           ("y", "Mz", g["h"], g["dv_z"], g["Asl_z"], l0z)):
+        length = l_clear if l_clear is not None else np.where(braced, l0, 0.5 * l0)
+        VEd = shear.VEd_from_end_moments(moments[f"{moment}_top"], moments[f"{moment}_bot"], length, V_given)
+        res = shear.shear_check_arrays(VEd, bw, dv, asl, NEd, g["Ac"], g["fck"], g["fcd"], Asw, s_link, fywd,
+                                       params=params)
+        for key in ("VEd", "VRd_c", "VRd_s", "VRd_max", "cot_theta"):
+            values[f"{key}_{along}"] = getattr(res, key)
+        values[f"shear_links_needed_{along}"] = res.needs_links
+
+        def note(i: int, res=res, moment=moment) -> str:
+            if not res.needs_links[i]:
+                return (f"VEd = (|{moment},top| + |{moment},bot|)/l <= VRd,c = {res.VRd_c[i] / 1e3:.0f} kN: "
+                        "no shear links needed beyond those of 9.5.3")
+            return (f"VEd > VRd,c = {res.VRd_c[i] / 1e3:.0f} kN: links 2 legs @ {s_link[i]:g} mm carry it, "
+                    f"VRd,s = {res.VRd_s[i] / 1e3:.0f} kN, strut VRd,max = {res.VRd_max[i] / 1e3:.0f} kN "
+                    f"(cot theta = {res.cot_theta[i]:.2f})")
+
+        out.append(CheckColumn(f"shear along {along}", "EN 1992-1-1, 6.2.2 Eq. (6.2), 6.2.3 Eqs. (6.8), (6.9)",
+                               "kN", res.VEd / 1e3, res.capacity / 1e3, np.ones(n_pairs, dtype=bool), note))
+    return out
 
 
 def _ratio(demand: np.ndarray, capacity: np.ndarray) -> np.ndarray:
@@ -721,20 +827,26 @@ def _detailing_checks(g: dict, NEd: np.ndarray, settings: CheckSettings, params:
 
 
 def _cover_checks(g: dict, settings: CheckSettings, params: NationalParameters):
+    """Nominal cover (4.4.1) and the indicative strength class (Annex E) of the exposure."""
     exp = settings.exposure
-    s_cls = cover.structural_class(exp, g["fck"], settings.working_life_100y, False, False, params)
-    dur = cover.cmin_dur(exp, s_cls)
-    req_link = cover.cnom(cover.cmin(cover.cmin_b(g["link"], settings.aggregate), dur, params), params)
-    req_main = cover.cnom(cover.cmin(cover.cmin_b(g["dia_max"], settings.aggregate), dur, params), params)
+    dur = cover.cmin_dur_for(exp, g["fck"], settings.working_life_100y, False, False, params)
+    req_link = cover.cnom(cover.cmin(cover.cmin_b(g["link"], settings.aggregate), dur.cmin_dur, params), params)
+    req_main = cover.cnom(cover.cmin(cover.cmin_b(g["dia_max"], settings.aggregate), dur.cmin_dur, params), params)
     ones = np.ones(len(g["b"]), dtype=bool)
-    def note(i: int) -> str:
-        return f"{exp.value}, S{int(s_cls[i])}, cmin,dur = {float(dur[i]):g} mm"
 
+    def note(i: int) -> str:
+        return f"{exp.name}: S{int(dur.s_class[i])} for {dur.governing[i]}, cmin,dur = {float(dur.cmin_dur[i]):g} mm"
+
+    strength = cover.check_indicative_strength(exp, float(np.max(g["fck"])))
+    need = cover.indicative_fck(exp)
     return [
         CheckColumn("nominal cover to links", "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)", "mm", req_link,
-                    g["cover"], ones, note),
+                    g["cover"], ones, note, kind=CheckKind.COVER),
         CheckColumn("nominal cover to main bars", "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)", "mm", req_main,
-                    g["cover"] + g["link"], ones, note),
+                    g["cover"] + g["link"], ones, note, kind=CheckKind.COVER),
+        CheckColumn(strength.name, strength.clause, "MPa", np.full(len(g["b"]), need), g["fck"], ones,
+                    strength.note,
+                    kind=CheckKind.DURABILITY),
     ]
 
 

@@ -44,7 +44,7 @@ from enum import StrEnum
 import numpy as np
 
 from design import detailing
-from design.cover import ExposureClass, cmin, cmin_b, cmin_dur, cnom, structural_class
+from design.cover import cmin, cmin_b, cmin_dur_for, cnom, parse_exposure
 from design.fire import TABLE_5_2A, FireRating
 from design.materials import Concrete, Reinforcement, parse_concrete_class
 from design.member import extra_ties
@@ -249,8 +249,8 @@ def required_cover(scenario: Scenario, spec: CatalogueSpec, params: NationalPara
     for c in scenario.cells:
         if c.settings.exposure is None:
             continue
-        exp = ExposureClass(c.settings.exposure)
-        dur = float(cmin_dur(exp, structural_class(exp, fck_min, params=params)))
+        exp = parse_exposure(c.settings.exposure)
+        dur = float(cmin_dur_for(exp, fck_min, params=params).cmin_dur)
         if dur > worst_dur:
             worst_dur, worst_exp = dur, exp
     if worst_exp is None:
@@ -270,7 +270,7 @@ def required_cover(scenario: Scenario, spec: CatalogueSpec, params: NationalPara
         return 5.0 * math.ceil(need / 5.0 - 1e-9)
 
     fire_note = f" and {worst_fire.name} (EN 1992-1-2 Table 5.2a axis distance)" if worst_fire else ""
-    return cover, (f"derived for exposure {worst_exp.value} (cmin,dur = {worst_dur:g} mm){fire_note} and each "
+    return cover, (f"derived for exposure {worst_exp.name} (cmin,dur = {worst_dur:g} mm){fire_note} and each "
                    "type's bars (EN 1992-1-1 4.4.1), rounded up to 5 mm")
 
 

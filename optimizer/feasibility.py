@@ -27,7 +27,6 @@ import numpy as np
 import pandas as pd
 
 from design import detailing, laps, slenderness
-from design.cover import ExposureClass
 from design.fire import FireRating
 from design.member import CheckSettings, ColumnActions, SectionData, check_members
 from design.resistance import SectionBatch
@@ -36,7 +35,8 @@ from optimizer.errors import InputError
 from optimizer.problem import ScheduleProblem, TypeTable
 from optimizer.scenario import Orientation, Scenario, fire_requirement
 
-__all__ = ["CellTable", "Feasibility", "cell_table", "feasibility", "RECHECK_BAND"]
+__all__ = ["CellTable", "Feasibility", "cell_table", "check_pairs", "check_settings_for", "feasibility",
+           "RECHECK_BAND"]
 
 RECHECK_BAND = (0.99, 1.01)  # screened utilisations re-checked with the exact solver
 _RESISTANCE_CHECKS = ("bending about y", "bending about z", "biaxial interaction")
@@ -64,9 +64,26 @@ class CellTable:
     free: np.ndarray  # bool: the stack's orientation is left to the optimiser
     has_above: np.ndarray  # bool: the stack continues above (bars lap into the next storey)
     l0_fi: np.ndarray  # effective length in fire, mm
+    M0Eqp_ratio: np.ndarray  # M0Eqp/M0Ed for phi_ef (EN 1992-1-1, 5.8.4(2)); nan where not known
 
     def __len__(self) -> int:
         return len(self.cells)
+
+    def actions(self, cells: np.ndarray, orient: int = 0) -> ColumnActions:
+        """Member-check actions of ``cells`` in the axes of a section turned by ``orient`` (1: plan axes swapped).
+
+        Where M0Eqp/M0Ed is not known for every one of the cells, 1.0 (its upper bound) is used for all of
+        them through ``ColumnActions.M0Eqp_ratio = None``, which the calculation sheet states.
+        """
+        cc = np.atleast_1d(np.asarray(cells, dtype=int))
+        ratio = self.M0Eqp_ratio[cc]
+        ratio = None if np.any(~np.isfinite(ratio)) else ratio
+        y, z = (("My", "Mz") if orient == 0 else ("Mz", "My"))
+        l0y, l0z = (self.l0y, self.l0z) if orient == 0 else (self.l0z, self.l0y)
+        return ColumnActions(NEd=self.NEd[cc], My_top=getattr(self, f"{y}_top")[cc],
+                             My_bot=getattr(self, f"{y}_bot")[cc], Mz_top=getattr(self, f"{z}_top")[cc],
+                             Mz_bot=getattr(self, f"{z}_bot")[cc], l0y=l0y[cc], l0z=l0z[cc],
+                             l_clear=self.l_clear[cc], l0_fi=self.l0_fi[cc], M0Eqp_ratio=ratio)
 
 
 def _num(df: pd.DataFrame, col: str) -> np.ndarray:
@@ -132,8 +149,13 @@ def cell_table(scenario: Scenario, actions: pd.DataFrame) -> CellTable:
     # stack, l the floor-to-floor length; otherwise l0,fi = l0.
     rating = np.array([int(str(f).upper().removeprefix("R")) if f else 0 for f in fire])
     l0_fi = np.where(rating > 30, np.where(has_above, 0.5, 0.7) * out["height"], np.maximum(out["l0y"], out["l0z"]))
+    ratio = np.full(n, np.nan)
+    if "M0Eqp_ratio" in actions.columns:
+        by_key = dict(zip(zip(actions["stack"], actions["level"], strict=True),
+                          actions["M0Eqp_ratio"].to_numpy(dtype=float), strict=True))
+        ratio = np.array([by_key[key] for key in names], dtype=float)
     return CellTable(cells=tuple(names), exposure=tuple(exposure), fire=tuple(fire), free=free, has_above=has_above,
-                     l0_fi=l0_fi, **out)
+                     l0_fi=l0_fi, M0Eqp_ratio=ratio, **out)
 
 
 @dataclass
@@ -194,12 +216,15 @@ class Feasibility:
         return [int(i) for i in np.nonzero(~has)[0]]
 
 
-def _settings_for(exposure: str | None, fire: str | None, dg: float, fire_rule: str = "flag") -> CheckSettings:
+def check_settings_for(scenario: Scenario, exposure: str | None, fire: str | None,
+                       fire_rule: str = "flag") -> CheckSettings:
+    """Member-check settings of the cells of one (exposure, fire) group of a scenario."""
     rating = None
     if fire:
         rating = FireRating(int(str(fire).upper().removeprefix("R")))
-    return CheckSettings(exposure=ExposureClass(exposure) if exposure else None, fire=rating, aggregate=dg,
-                         fire_outside_method=fire_rule)
+    return CheckSettings(exposure=exposure or None, fire=rating,
+                         aggregate=scenario.materials.aggregate_mm, fire_outside_method=fire_rule,
+                         creep=scenario.creep)
 
 
 def feasibility(
@@ -236,7 +261,6 @@ def feasibility(
     n_types = len(catalogue)
     square = (~ta["circ"]) & (ta["b"] == ta["h"])
     turnable = np.nonzero(~ta["circ"] & ~square)[0]
-    dg = scenario.materials.aggregate_mm
 
     groups: dict[tuple, list[int]] = {}
     for i in range(len(ct)):
@@ -260,7 +284,7 @@ def feasibility(
     checked = 0
     tasks = []
     for (exp, fire), cells_arr, orient, types_arr in jobs:
-        settings = _settings_for(exp, fire, dg, fire_rule)
+        settings = check_settings_for(scenario, exp, fire, fire_rule)
         per_chunk = max(1, max_pairs // len(types_arr))
         for start in range(0, len(cells_arr), per_chunk):
             tasks.append((cells_arr[start:start + per_chunk], types_arr, orient, settings))
@@ -284,7 +308,7 @@ def feasibility(
         unver = np.zeros(cc.size, dtype=bool)
         if full.size == 0:
             return cs, types_arr, orient, cc, tt, util, gov, [_AXIAL_NAME], 0, unver
-        res, names = _check(data, cc[full], tt[full], ct, orient, settings, params, fast=True)
+        res, names = check_pairs(data, cc[full], tt[full], ct, orient, settings, params, fast=True)
         util[full] = res.utilisation
         gov[full] = res.governing
         unver[full] = res.unverified
@@ -297,7 +321,7 @@ def feasibility(
         band = full[np.nonzero((u_res >= RECHECK_BAND[0]) & (u_res <= RECHECK_BAND[1])
                                & (others.max(axis=1) <= 1.0 + 1e-9))[0]]
         if band.size:
-            exact, _ = _check(data, cc[band], tt[band], ct, orient, settings, params, fast=False)
+            exact, _ = check_pairs(data, cc[band], tt[band], ct, orient, settings, params, fast=False)
             util = util.copy()
             gov = gov.copy()
             util[band] = exact.utilisation
@@ -364,18 +388,10 @@ def _global_check_ids(names: list[str], registry: list[str]) -> np.ndarray:
     return np.array(ids, dtype=int)
 
 
-def _check(data: SectionData, cc: np.ndarray, tt: np.ndarray, ct: CellTable, orient: int, settings: CheckSettings,
-           params, fast: bool):
+def check_pairs(data: SectionData, cc: np.ndarray, tt: np.ndarray, ct: CellTable, orient: int,
+                settings: CheckSettings, params, fast: bool):
     """Member check of pairs (cell cc, type tt); orientation 1 swaps the plan axes."""
-    if orient == 0:
-        acts = ColumnActions(NEd=ct.NEd[cc], My_top=ct.My_top[cc], My_bot=ct.My_bot[cc], Mz_top=ct.Mz_top[cc],
-                             Mz_bot=ct.Mz_bot[cc], l0y=ct.l0y[cc], l0z=ct.l0z[cc], l_clear=ct.l_clear[cc],
-                             l0_fi=ct.l0_fi[cc])
-    else:
-        acts = ColumnActions(NEd=ct.NEd[cc], My_top=ct.Mz_top[cc], My_bot=ct.Mz_bot[cc], Mz_top=ct.My_top[cc],
-                             Mz_bot=ct.My_bot[cc], l0y=ct.l0z[cc], l0z=ct.l0y[cc], l_clear=ct.l_clear[cc],
-                             l0_fi=ct.l0_fi[cc])
-    res = check_members(data, tt, acts, settings, params, fast=fast)
+    res = check_members(data, tt, ct.actions(cc, orient), settings, params, fast=fast)
     names = [f"{c.name} ({c.clause})" for c in res.checks]
     return res, names
 
@@ -472,7 +488,8 @@ def to_problem(feas: Feasibility, scenario: Scenario, run) -> ScheduleProblem:
         starter_kg_per_m=ta["As"] * 1e-6 * STEEL_DENSITY,
     )
     cost, carbon = candidate_cost_carbon(feas, run.costs)
-    rules = run.rules
+    # the lap-zone limit of 9.5.2(3) comes from the scenario's parameter set
+    rules = dataclasses.replace(run.rules, lap_steel_ratio_max=scenario.params.rho_max_lap)
     if run.pinned:
         rules = dataclasses.replace(rules, pinned=tuple(_pin(feas, scenario, p) for p in run.pinned))
     return ScheduleProblem(

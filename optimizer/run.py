@@ -22,7 +22,7 @@ from design.resistance import SectionBatch
 from optimizer import __version__
 from optimizer.catalogue import Catalogue, build_catalogue
 from optimizer.errors import DesignImpossible, InputError
-from optimizer.feasibility import Feasibility, _check, _settings_for, feasibility, to_problem
+from optimizer.feasibility import Feasibility, check_pairs, check_settings_for, feasibility, to_problem
 from optimizer.problem import Schedule, ScheduleProblem
 from optimizer.scenario import Scenario, load_scenario
 from optimizer.settings import RunSettings, read_run_settings
@@ -333,8 +333,8 @@ def recheck(scenario: Scenario, cat: Catalogue, fe: Feasibility, chosen_type: np
     parts = []
     for (exp, fire, orient), cells in groups.items():
         cc = np.array(cells)
-        st = _settings_for(exp, fire, scenario.materials.aggregate_mm, settings.fire_rule)
-        res, _ = _check(data, cc, chosen_type[cc], ct, orient, st, scenario.params, fast=False)
+        st = check_settings_for(scenario, exp, fire, settings.fire_rule)
+        res, _ = check_pairs(data, cc, chosen_type[cc], ct, orient, st, scenario.params, fast=False)
         parts.append((cc, res))
     return _merge(parts, n)
 

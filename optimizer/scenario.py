@@ -39,6 +39,7 @@ from typing import Any, NamedTuple
 import networkx as nx
 from shapely.geometry import Polygon
 
+from design.creep import CementClass, CreepSettings
 from design.materials import Ductility, parse_concrete_class
 from design.params import NationalParameters, ParameterSet, parameter_set, with_overrides
 from optimizer.errors import InputError, did_you_mean
@@ -73,7 +74,7 @@ __all__ = [
 RESERVED_TABLES = ("catalogue", "rules", "costs", "optimizer")
 TOP_LEVEL_KEYS = (
     "project", "parameters", "materials", "levels", "stacks", "floors",
-    "settings", "takedown", "actions", *RESERVED_TABLES,
+    "settings", "takedown", "actions", "creep", *RESERVED_TABLES,
 )
 
 # Exposure classes of EN 1992-1-1, Table 4.1.
@@ -318,6 +319,8 @@ class Scenario:
     actions_file: str | None
     cells: tuple[Cell, ...]
     reserved: Mapping[str, Any]
+    creep: CreepSettings = CreepSettings()  # EN 1992-1-1 Annex B conditions for phi_ef
+    creep_given: bool = False  # False: the defaults of CreepSettings, said in the run's notes
 
     @cached_property
     def _level_by_name(self) -> dict[str, Level]:
@@ -880,6 +883,20 @@ def _read_effective_length(t: _Table) -> dict[str, EffectiveLength]:
     return {"effective_length": EffectiveLength(l0y_factor=fy, l0z_factor=fz)}
 
 
+def _read_creep(top: _Table) -> tuple[CreepSettings, bool]:
+    """The conditions of the creep coefficient (EN 1992-1-1 Annex B); defaults when the table is absent."""
+    t = top.table("creep", required=False)
+    if t is None:
+        return CreepSettings(), False
+    d = CreepSettings()
+    rh = t.num("relative_humidity_percent", required=False, minimum=20.0, maximum=100.0)
+    t0 = t.num("age_at_loading_days", required=False, positive=True, maximum=3650.0)
+    cement = t.choice("cement_class", CementClass, required=False)
+    t.done()
+    return CreepSettings(RH_percent=d.RH_percent if rh is None else rh, t0_days=d.t0_days if t0 is None else t0,
+                         cement=d.cement if cement is None else cement), True
+
+
 def _read_takedown(top: _Table) -> TakedownOptions | None:
     t = top.table("takedown", required=False)
     if t is None:
@@ -1010,6 +1027,7 @@ def load_scenario_text(text: str, source: str = "<scenario>",
                              "a [takedown] table (combination, imposed_reduction)")
         floors, level_floors = _read_floors(top, levels)
     rules = _read_settings(top, levels, stack_ids)
+    creep, creep_given = _read_creep(top)
     reserved = {}
     for name in RESERVED_TABLES:
         tbl = top.table(name, required=False)
@@ -1025,5 +1043,5 @@ def load_scenario_text(text: str, source: str = "<scenario>",
         source=source, project=project, parameter_set=pset, parameter_overrides=overrides,
         params=params, materials=materials, levels=levels, stacks=stacks, floors=floors,
         level_floors=level_floors, takedown=takedown, actions_file=actions_file, cells=cells,
-        reserved=MappingProxyType(reserved),
+        reserved=MappingProxyType(reserved), creep=creep, creep_given=creep_given,
     )

@@ -27,7 +27,7 @@ from __future__ import annotations
 
 import csv
 import math
-from collections.abc import Callable, Mapping
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
 from types import MappingProxyType
@@ -42,6 +42,7 @@ from optimizer.errors import InputError, did_you_mean
 from optimizer.graph import build_stack_graph, carried_cells, load_order
 from optimizer.loads import (
     ALPHA_N_CATEGORIES,
+    PSI_FACTORS,
     Category,
     ImposedReduction,
     alpha_A,
@@ -80,7 +81,7 @@ __all__ = [
 
 ACTION_COLUMNS = ("stack", "level", "NEd_kN", "My_top_kNm", "My_bot_kNm", "Mz_top_kNm",
                   "Mz_bot_kNm")
-OPTIONAL_COLUMNS = ("l0y_mm", "l0z_mm", "exposure", "fire")
+OPTIONAL_COLUMNS = ("l0y_mm", "l0z_mm", "exposure", "fire", "M0Eqp_ratio")
 K_COLUMNS = ("k1y", "k2y", "k1z", "k2z")
 
 # Two columns lie on one grid line when their offset across the line is at most this.
@@ -236,6 +237,31 @@ def distribute_to_columns(m_unbalanced_kNm: float, k_below: float, k_above: floa
     return m_unbalanced_kNm * k_below / denom, m_unbalanced_kNm * k_above / denom
 
 
+QP = "quasi-permanent"  # key of the quasi-permanent sub-frame moments beside the design expressions
+
+
+def m0eqp_ratio(NEd_kN: float, N_qp_kN: float, moments: Sequence[tuple[float, float]]) -> float:
+    """M0Eqp / M0Ed of a cell for the effective creep ratio, in [0, 1].
+
+    EN 1992-1-1, 5.8.4(2), Eq. (5.19): phi_ef = phi(inf, t0) M0Eqp / M0Ed, with
+    M0Eqp and M0Ed the first-order moments in the quasi-permanent and the
+    design combination, imperfections included. The first-order moment of
+    a column is its end moment from the frame plus N ei; the ratio of the
+    sums lies between the ratio of the frame moments and that of the axial
+    forces (ei is the same in both), so the larger of the two bounds it from
+    above whatever ei is: that is what is returned (the larger over both axes).
+
+    Args:
+        NEd_kN: design axial force, kN.
+        N_qp_kN: axial force under the quasi-permanent combination, kN.
+        moments: per axis, (design end moment, quasi-permanent end moment), kNm,
+            the larger end of each.
+    """
+    ratios = [N_qp_kN / NEd_kN if NEd_kN > 0 else 1.0]
+    ratios += [m_qp / m_ed for m_ed, m_qp in moments if m_ed > 1e-9]
+    return float(min(max(max(ratios), 0.0), 1.0))
+
+
 def _section_I_m4(b_mm: float, h_mm: float, orientation: Orientation,
                   direction: str) -> tuple[float, str]:
     """Column second moment of area for bending in a plan direction, and the local axis.
@@ -353,6 +379,14 @@ def joint_moments(scenario: Scenario, tributary: Mapping[str, LevelTributary],
                     top[(c.id, name, axis)] = m_below
                     if above is not None:
                         bot[(above, name, axis)] = m_above
+                # quasi-permanent combination Gk + psi2 Qk (EN 1990, Eq. (6.16b)) for M0Eqp of
+                # EN 1992-1-1, 5.8.4(2): the same sub-frame, unfactored, pattern of psi2 q
+                w_qp = (g + PSI_FACTORS[lf.category].psi2 * q) * width
+                m_below, m_above = distribute_to_columns(out_of_balance_moment(w_qp, g * width, s1, s2),
+                                                         k_below, k_above, k_slabs)
+                top[(c.id, QP, axis)] = m_below
+                if above is not None:
+                    bot[(above, QP, axis)] = m_above
     warnings = []
     if no_span:
         shown = ", ".join(no_span[:8]) + (" ..." if len(no_span) > 8 else "")
@@ -534,6 +568,10 @@ def _tables(scenario: Scenario, loads: Mapping[CellId, _Load],
         q_red, psi_q, reduction = _reduced(load, mode)
         NEd, expr = combine(load.G_kN, q_red, psi_q, scenario.params,
                             scenario.takedown.combination)
+        N_qp = load.G_kN + sum(PSI_FACTORS[cat].psi2 * v[0] for (cat, _), v in load.Q.items())
+        ratio = m0eqp_ratio(NEd, N_qp, [(max(top.get((c.id, e, ax), 0.0), bot.get((c.id, e, ax), 0.0)),
+                                        max(top.get((c.id, QP, ax), 0.0), bot.get((c.id, QP, ax), 0.0)))
+                                       for e in (expr,) for ax in ("y", "z")])
         row = {
             "stack": c.stack, "level": c.level, "NEd_kN": NEd,
             "My_top_kNm": top.get((c.id, expr, "y"), 0.0),
@@ -542,6 +580,7 @@ def _tables(scenario: Scenario, loads: Mapping[CellId, _Load],
             "Mz_bot_kNm": bot.get((c.id, expr, "z"), 0.0),
             "l0y_mm": c.l0y_mm, "l0z_mm": c.l0z_mm,
             "exposure": c.settings.exposure, "fire": c.settings.fire,
+            "M0Eqp_ratio": ratio,
         }
         if any_k:
             el = c.settings.effective_length
@@ -556,6 +595,7 @@ def _tables(scenario: Scenario, loads: Mapping[CellId, _Load],
             "Gk_floor_kN": fr["G_floor"], "Qk_floor_kN": fr["Q_floor"],
             "self_weight_kN": fr["self"], "Gk_kN": load.G_kN, "Qk_kN": load.Qk_kN,
             "Qk_reduced_kN": q_red, "reduction": reduction, "expression": expr, "NEd_kN": NEd,
+            "N_qp_kN": N_qp, "M0Eqp_ratio": ratio,
         })
     actions = pd.DataFrame(rows)
     for col in ("l0y_mm", "l0z_mm"):
@@ -652,7 +692,7 @@ def write_actions_csv(actions: pd.DataFrame, path: str | Path) -> Path:
     """Write an actions table in the CSV format (kN, kNm, mm; compression positive).
 
     Columns: ``stack, level, NEd_kN, My_top_kNm, My_bot_kNm, Mz_top_kNm,
-    Mz_bot_kNm`` then, when present, ``l0y_mm, l0z_mm, exposure, fire`` and
+    Mz_bot_kNm`` then, when present, ``l0y_mm, l0z_mm, exposure, fire, M0Eqp_ratio`` and
     ``k1y, k2y, k1z, k2z``.
     """
     missing = [c for c in ACTION_COLUMNS if c not in actions.columns]
@@ -774,6 +814,12 @@ def _csv_record(file: str, n: int, rec: Mapping[str, str]) -> dict[str, Any]:
         out["exposure"] = _exposure(file, f"row {n}, column exposure", rec["exposure"])
     if rec.get("fire", ""):
         out["fire"] = _fire(file, f"row {n}, column fire", rec["fire"])
+    if rec.get("M0Eqp_ratio", ""):
+        x = _csv_float(file, n, "M0Eqp_ratio", rec["M0Eqp_ratio"], 0.0)
+        if x > 1.5:
+            raise InputError(file, f"row {n}, column M0Eqp_ratio", rec["M0Eqp_ratio"],
+                             "M0Eqp/M0Ed between 0 and 1.5 (quasi-permanent over design first-order moment)")
+        out["M0Eqp_ratio"] = x
     return out
 
 
@@ -792,13 +838,14 @@ def _actions_frame(scenario: Scenario, records: Mapping[CellId, dict[str, Any]],
         row["l0z_mm"] = rec.get("l0z_mm", c.l0z_mm)
         row["exposure"] = rec.get("exposure", c.settings.exposure)
         row["fire"] = rec.get("fire", c.settings.fire)
+        row["M0Eqp_ratio"] = rec.get("M0Eqp_ratio", math.nan)  # blank: not known (phi_ef with 1.0, said)
         if any_k:
             for k in K_COLUMNS:
                 default = getattr(el, k) if el is not None else None
                 row[k] = rec.get(k, default)
         rows.append(row)
     df = pd.DataFrame(rows)
-    for col in ("l0y_mm", "l0z_mm", *(K_COLUMNS if any_k else ())):
+    for col in ("l0y_mm", "l0z_mm", "M0Eqp_ratio", *(K_COLUMNS if any_k else ())):
         df[col] = df[col].astype(float)
     return df
 

@@ -16,7 +16,7 @@ from design.member import check_column
 from optimizer.catalogue import Shape, build_catalogue, type_arrays
 from optimizer.cli import main
 from optimizer.errors import InputError
-from optimizer.feasibility import _check, _settings_for, cell_table, feasibility, to_problem
+from optimizer.feasibility import cell_table, check_pairs, check_settings_for, feasibility, to_problem
 from optimizer.scenario import load_scenario, load_scenario_text
 from optimizer.settings import read_run_settings
 from optimizer.takedown import scenario_actions
@@ -82,8 +82,8 @@ def test_matrix_agrees_with_single_column_check(small):
     for _ in range(250):
         c = int(rng.integers(len(ct)))
         t = int(rng.integers(len(cat)))
-        settings = _settings_for(ct.exposure[c], ct.fire[c], sc.materials.aggregate_mm, "flag")
-        res, _ = _check(data, np.array([c]), np.array([t]), ct, 0, settings, sc.params, fast=False)
+        settings = check_settings_for(sc, ct.exposure[c], ct.fire[c], "flag")
+        res, _ = check_pairs(data, np.array([c]), np.array([t]), ct, 0, settings, sc.params, fast=False)
         exact = float(res.utilisation[0])
         # the design section's own single check gives the same
         one = check_column(cat.designs[t], _actions_of(ct, c), settings, sc.params)
@@ -104,7 +104,8 @@ def _actions_of(ct, c):
     from design.member import ColumnActions
 
     return ColumnActions(NEd=ct.NEd[c], My_top=ct.My_top[c], My_bot=ct.My_bot[c], Mz_top=ct.Mz_top[c],
-                         Mz_bot=ct.Mz_bot[c], l0y=ct.l0y[c], l0z=ct.l0z[c], l_clear=ct.l_clear[c], l0_fi=ct.l0_fi[c])
+                         Mz_bot=ct.Mz_bot[c], l0y=ct.l0y[c], l0z=ct.l0z[c], l_clear=ct.l_clear[c], l0_fi=ct.l0_fi[c],
+                         M0Eqp_ratio=ct.M0Eqp_ratio[c] if np.isfinite(ct.M0Eqp_ratio[c]) else None)
 
 
 def test_turned_candidates_only_for_free_stacks_and_rectangles(small):
