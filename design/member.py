@@ -42,11 +42,12 @@ from typing import Literal
 import numpy as np
 from numpy.typing import ArrayLike
 
-from design import biaxial, cover, creep, detailing, fire, laps, shear, slenderness
+from design import biaxial, cover, creep, detailing, fire, laps, serviceability, shear, slenderness
 from design.biaxial import SectionShape
 from design.cover import Exposure, ExposureClass, parse_exposure
 from design.creep import CreepSettings
 from design.fire import MU_FI_DEFAULT, FireRating
+from design.materials import Ecm, fctm
 from design.params import EN_RECOMMENDED, NationalParameters
 from design.resistance import DesignSection, SectionBatch
 from design.results import CheckKind, CheckResult
@@ -175,7 +176,12 @@ class ColumnActions:
             of Eq. (5.37).
         M0Eqp_ratio: M0Eqp / M0Ed, first-order moment under the quasi-permanent
             combination over that under the design combination (5.8.4(2));
-            None: 1.0, its usual upper bound, said on the sheet.
+            None: 1.0, its usual upper bound, said on the sheet. The same
+            ratio scales the design actions to the quasi-permanent ones for
+            the stress that decides whether creep is linear (3.1.4(4)).
+        char_ratio: characteristic over design actions (N and first-order
+            moments) for the stress limit of 7.2(2); None: 1.0 (the design
+            actions, on the safe side), said in the check's note.
         moments_from_analysis: rm = M01/M02 may be used for C (braced members
             whose end moments come from an analysis, 5.8.3.1(1)); else C = 0.7.
         braced: the member belongs to a braced structure. Unbraced members take
@@ -202,6 +208,7 @@ class ColumnActions:
     l0_fi: ArrayLike | None = None
     phi_ef: ArrayLike | None = None
     M0Eqp_ratio: ArrayLike | None = None
+    char_ratio: ArrayLike | None = None
     moments_from_analysis: bool = True
     braced: bool = True
     As_below: ArrayLike | None = None
@@ -242,6 +249,8 @@ class SectionData:
     Asl_z: np.ndarray  # bars of the tension face for bending about z (shear along y), mm2
     dv_y: np.ndarray  # effective depth to that face's bars, shear along z, mm
     dv_z: np.ndarray  # effective depth to that face's bars, shear along y, mm
+    fctm: np.ndarray  # mean tensile strength, MPa (Table 3.1)
+    tr: dict  # uncracked transformed section, short-term alpha_e = Es/Ecm (7.2): A, Sy, Sz, Iyy, Izz, Iyz
 
     @classmethod
     def of(cls, batch: SectionBatch) -> SectionData:
@@ -256,6 +265,7 @@ class SectionData:
         ties = [extra_ties(s) for s in secs]
         axis = [_axis_distances(s) for s in secs]
         tension = np.array([_tension_face(s) for s in secs], dtype=float).reshape(-1, 4)
+        trs = [_transformed(d) for d in ds]
         return cls(
             batch=batch, circ=circ, b=b, h=h,
             Ac=np.array([s.Ac for s in secs]), As=np.array([s.As for s in secs]),
@@ -273,7 +283,25 @@ class SectionData:
             extra_ties=np.array(ties),
             a_fire_min=np.array([a for a, _ in axis]), a_fire_mean=np.array([m for _, m in axis]),
             Asl_y=tension[:, 0], Asl_z=tension[:, 1], dv_y=tension[:, 2], dv_z=tension[:, 3],
+            fctm=np.array([float(fctm(d.concrete.fck)) for d in ds]),
+            tr={k: np.array([float(getattr(x, k)) for x in trs]) for k in ("A", "Sy", "Sz", "Iyy", "Izz", "Iyz")},
         )
+
+    def transformed(self, idx: np.ndarray) -> serviceability.TransformedSection:
+        """The uncracked transformed sections of pairs ``idx``."""
+        return serviceability.TransformedSection(
+            **{k: v[idx] for k, v in self.tr.items()}, b=self.b[idx], h=self.h[idx], circular=self.circ[idx])
+
+
+def _transformed(design: DesignSection) -> serviceability.TransformedSection:
+    """Uncracked transformed section with the short-term modular ratio Es/Ecm (EN 1992-1-1, 7.2)."""
+    s = design.section
+    y, z, dia = s.bar_coords()
+    ae = serviceability.alpha_e(float(Ecm(design.concrete.fck)), 0.0, design.steel.Es)
+    area = np.pi * dia**2 / 4.0
+    if isinstance(s, CircSection):
+        return serviceability.transformed_circle(s.diameter, y, z, area, ae)
+    return serviceability.transformed_rectangle(s.b, s.h, y, z, area, ae)
 
 
 def _tension_face(section: RectSection | CircSection) -> tuple[float, float, float, float]:
@@ -567,7 +595,7 @@ def check_members(
     g = {k: getattr(data, k)[idx] for k in (
         "circ", "b", "h", "Ac", "As", "iy", "iz", "dy", "dz", "fck", "fcd", "fyk", "fyd", "Es",
         "cover", "link", "dia_max", "dia_min", "n_bars", "min_gap", "extra_ties", "a_fire_min", "a_fire_mean",
-        "Asl_y", "Asl_z", "dv_y", "dv_z")}
+        "Asl_y", "Asl_z", "dv_y", "dv_z", "fctm")}
     l0y, l0z = _b(actions.l0y, n_pairs), _b(actions.l0z, n_pairs)
     if np.any(l0y <= 0) or np.any(l0z <= 0):
         msg = "effective lengths l0y, l0z must be positive (mm)"
@@ -582,7 +610,7 @@ def check_members(
     ei_z = slenderness.ei(l0z, settings.imperfection, l=l_clear, params=params)
     use_rm = np.full(n_pairs, bool(actions.moments_from_analysis))
     both = settings.min_eccentricity is MinEccentricity.BOTH_AXES
-    phi_ef, creep_values = _creep(g, actions, settings, n_pairs)
+    phi_ef, creep_values = _creep(g, data.transformed(idx), NEd, moments, actions, settings, n_pairs)
 
     # Resistances at NEd (independent of the imperfection case).
     NRd = sb.NRd()[idx]
@@ -683,9 +711,12 @@ def check_members(
     checks += _shear_checks(g, NEd, moments, l0y, l0z, l_clear, braced, s_link, actions, values, params)
     checks += [dataclasses.replace(c, kind=CheckKind.DETAILING) for c in _detailing_checks(g, NEd, settings, params,
                                                                              _b(actions.As_below, n_pairs))]
-    checks += _link_spacing_checks(g, s_link, s_zone, params)
+    if actions.s_link is not None or actions.s_link_zone is not None:
+        # derived spacings meet 9.5.3(3), (4) by construction; given ones are checked
+        checks += _link_spacing_checks(g, s_link, s_zone, params)
     if settings.exposure is not None:
         checks += _cover_checks(g, settings, params)
+        checks += _stress_checks(g, data.transformed(idx), NEd, moments, actions, settings, values, params)
     if settings.fire is not None:
         l0_fi = _b(actions.l0_fi, n_pairs)
         values["l0_fi"] = np.maximum(l0y, l0z) if l0_fi is None else l0_fi
@@ -699,14 +730,32 @@ def check_members(
     return MemberChecks(idx=idx, checks=checks, values=values)
 
 
-def _creep(g: dict, actions: ColumnActions, settings: CheckSettings, n_pairs: int):
-    """Effective creep ratio per pair and the values that explain it (EN 1992-1-1, 5.8.4, Annex B)."""
+def _frame_moments(moments: dict) -> tuple[np.ndarray, np.ndarray]:
+    """The larger first-order end moment about y and about z (magnitudes), N mm."""
+    return (np.maximum(np.abs(moments["My_top"]), np.abs(moments["My_bot"])),
+            np.maximum(np.abs(moments["Mz_top"]), np.abs(moments["Mz_bot"])))
+
+
+def _creep(g: dict, tr: serviceability.TransformedSection, NEd: np.ndarray, moments: dict,
+           actions: ColumnActions, settings: CheckSettings, n_pairs: int):
+    """Effective creep ratio per pair and the values that explain it.
+
+    EN 1992-1-1, 5.8.4 (Eq. (5.19)), Annex B, and 3.1.4(4): where the
+    quasi-permanent compressive stress exceeds 0.45 fck at loading, creep is
+    non-linear and phi(inf, t0) is raised by Eq. (3.7). The stress is that of
+    the uncracked transformed section under the design actions scaled by
+    M0Eqp/M0Ed (short-term modular ratio: on the safe side for the concrete).
+    """
     perimeter = np.where(g["circ"], creep.perimeter_circle(g["b"]), creep.perimeter_rectangle(g["b"], g["h"]))
     h0 = creep.notional_size(g["Ac"], perimeter)
-    phi_inf = creep.phi_inf_section(g["Ac"], perimeter, g["fck"] + 8.0, settings.creep)  # fcm, Table 3.1
+    phi_lin = creep.phi_inf_section(g["Ac"], perimeter, g["fck"] + 8.0, settings.creep)  # fcm, Table 3.1
     given = actions.phi_ef is not None
     ratio_given = actions.M0Eqp_ratio is not None
     ratio = _b(actions.M0Eqp_ratio, n_pairs) if ratio_given else np.ones(n_pairs)
+    my, mz = _frame_moments(moments)
+    stress = serviceability.sigma_c_uncracked(tr, np.maximum(NEd, 0.0) * ratio, my * ratio, mz * ratio, g["fctm"])
+    k_sigma = np.maximum(stress.sigma_c_max, 0.0) / g["fck"]
+    phi_inf = creep.phi_nonlinear(phi_lin, k_sigma)
     if given:
         phi_ef = _b(actions.phi_ef, n_pairs)
         source = "given"
@@ -715,9 +764,42 @@ def _creep(g: dict, actions: ColumnActions, settings: CheckSettings, n_pairs: in
         source = ("Annex B, M0Eqp/M0Ed from the quasi-permanent and design combinations" if ratio_given
                   else "Annex B, M0Eqp/M0Ed not given: 1.0 taken (upper bound)")
     return phi_ef, {
-        "phi_ef": phi_ef, "phi_inf": phi_inf, "h0": h0, "M0Eqp_ratio": ratio,
+        "phi_ef": phi_ef, "phi_inf": phi_inf, "phi_inf_linear": phi_lin, "h0": h0, "M0Eqp_ratio": ratio,
+        "sigma_c_qp": stress.sigma_c_max, "k_sigma_qp": k_sigma, "creep_nonlinear": k_sigma > creep.K_SIGMA_LINEAR,
         "phi_ef_source": np.full(n_pairs, source), "creep_conditions": np.full(n_pairs, settings.creep.describe()),
     }
+
+
+def _stress_checks(g: dict, tr: serviceability.TransformedSection, NEd: np.ndarray, moments: dict,
+                   actions: ColumnActions, settings: CheckSettings, values: dict,
+                   params: NationalParameters) -> list[CheckColumn]:
+    """Compressive stress under the characteristic combination, k1 fck in XD, XF, XS (EN 1992-1-1, 7.2(2)).
+
+    Uncracked transformed section (short-term modular ratio) under the design actions times
+    ``char_ratio`` (N and the larger first-order end moments; 1.0 when not given, on the safe side).
+    Where the section cracks under those actions the uncracked stress is not valid and the check is
+    flagged as not verified (a cracked-section stress is not computed here).
+    """
+    if settings.exposure is None or not serviceability.needs_characteristic_limit(settings.exposure):
+        return []
+    n_pairs = len(NEd)
+    given = actions.char_ratio is not None
+    ratio = _b(actions.char_ratio, n_pairs) if given else np.ones(n_pairs)
+    my, mz = _frame_moments(moments)
+    s = serviceability.sigma_c_uncracked(tr, np.maximum(NEd, 0.0) * ratio, my * ratio, mz * ratio, g["fctm"])
+    values["sigma_c_char"] = s.sigma_c_max
+    limit = serviceability.sigma_c_limit_characteristic(g["fck"], params)
+    basis = "characteristic actions" if given else "design actions (characteristic not given)"
+
+    def note(i: int) -> str:
+        if s.cracked[i]:
+            return (f"section cracked under the {basis}: uncracked stress not valid, "
+                    "not verified (cracked-section stress not computed)")
+        return f"uncracked transformed section under the {basis}, {settings.exposure.name}"
+
+    return [CheckColumn("compressive stress, characteristic combination", "EN 1992-1-1, 7.2(2)", "MPa",
+                        np.maximum(s.sigma_c_max, 0.0), limit, ~s.cracked, note, blocking=False,
+                        kind=CheckKind.DURABILITY)]
 
 
 def _link_spacing(g: dict, actions: ColumnActions, n_pairs: int, params: NationalParameters):

@@ -65,6 +65,7 @@ class CellTable:
     has_above: np.ndarray  # bool: the stack continues above (bars lap into the next storey)
     l0_fi: np.ndarray  # effective length in fire, mm
     M0Eqp_ratio: np.ndarray  # M0Eqp/M0Ed for phi_ef (EN 1992-1-1, 5.8.4(2)); nan where not known
+    char_ratio: np.ndarray  # characteristic over design actions for 7.2(2); nan where not known
 
     def __len__(self) -> int:
         return len(self.cells)
@@ -72,18 +73,21 @@ class CellTable:
     def actions(self, cells: np.ndarray, orient: int = 0) -> ColumnActions:
         """Member-check actions of ``cells`` in the axes of a section turned by ``orient`` (1: plan axes swapped).
 
-        Where M0Eqp/M0Ed is not known for every one of the cells, 1.0 (its upper bound) is used for all of
-        them through ``ColumnActions.M0Eqp_ratio = None``, which the calculation sheet states.
+        Where M0Eqp/M0Ed (or the characteristic ratio) is not known for every one of the cells, 1.0 (its
+        upper bound) is used for all of them through ``None``, which the calculation sheet states.
         """
         cc = np.atleast_1d(np.asarray(cells, dtype=int))
-        ratio = self.M0Eqp_ratio[cc]
-        ratio = None if np.any(~np.isfinite(ratio)) else ratio
+
+        def known(values: np.ndarray) -> np.ndarray | None:
+            v = values[cc]
+            return None if np.any(~np.isfinite(v)) else v
         y, z = (("My", "Mz") if orient == 0 else ("Mz", "My"))
         l0y, l0z = (self.l0y, self.l0z) if orient == 0 else (self.l0z, self.l0y)
         return ColumnActions(NEd=self.NEd[cc], My_top=getattr(self, f"{y}_top")[cc],
                              My_bot=getattr(self, f"{y}_bot")[cc], Mz_top=getattr(self, f"{z}_top")[cc],
                              Mz_bot=getattr(self, f"{z}_bot")[cc], l0y=l0y[cc], l0z=l0z[cc],
-                             l_clear=self.l_clear[cc], l0_fi=self.l0_fi[cc], M0Eqp_ratio=ratio)
+                             l_clear=self.l_clear[cc], l0_fi=self.l0_fi[cc], M0Eqp_ratio=known(self.M0Eqp_ratio),
+                             char_ratio=known(self.char_ratio))
 
 
 def _num(df: pd.DataFrame, col: str) -> np.ndarray:
@@ -149,13 +153,15 @@ def cell_table(scenario: Scenario, actions: pd.DataFrame) -> CellTable:
     # stack, l the floor-to-floor length; otherwise l0,fi = l0.
     rating = np.array([int(str(f).upper().removeprefix("R")) if f else 0 for f in fire])
     l0_fi = np.where(rating > 30, np.where(has_above, 0.5, 0.7) * out["height"], np.maximum(out["l0y"], out["l0z"]))
-    ratio = np.full(n, np.nan)
-    if "M0Eqp_ratio" in actions.columns:
-        by_key = dict(zip(zip(actions["stack"], actions["level"], strict=True),
-                          actions["M0Eqp_ratio"].to_numpy(dtype=float), strict=True))
-        ratio = np.array([by_key[key] for key in names], dtype=float)
+    ratios = {}
+    for col in ("M0Eqp_ratio", "char_ratio"):
+        ratios[col] = np.full(n, np.nan)
+        if col in actions.columns:
+            by_key = dict(zip(zip(actions["stack"], actions["level"], strict=True),
+                              actions[col].to_numpy(dtype=float), strict=True))
+            ratios[col] = np.array([by_key[key] for key in names], dtype=float)
     return CellTable(cells=tuple(names), exposure=tuple(exposure), fire=tuple(fire), free=free, has_above=has_above,
-                     l0_fi=l0_fi, M0Eqp_ratio=ratio, **out)
+                     l0_fi=l0_fi, **ratios, **out)
 
 
 @dataclass

@@ -81,7 +81,7 @@ __all__ = [
 
 ACTION_COLUMNS = ("stack", "level", "NEd_kN", "My_top_kNm", "My_bot_kNm", "Mz_top_kNm",
                   "Mz_bot_kNm")
-OPTIONAL_COLUMNS = ("l0y_mm", "l0z_mm", "exposure", "fire", "M0Eqp_ratio")
+OPTIONAL_COLUMNS = ("l0y_mm", "l0z_mm", "exposure", "fire", "M0Eqp_ratio", "char_ratio")
 K_COLUMNS = ("k1y", "k2y", "k1z", "k2z")
 
 # Two columns lie on one grid line when their offset across the line is at most this.
@@ -238,6 +238,7 @@ def distribute_to_columns(m_unbalanced_kNm: float, k_below: float, k_above: floa
 
 
 QP = "quasi-permanent"  # key of the quasi-permanent sub-frame moments beside the design expressions
+CHAR = "characteristic"  # key of the characteristic sub-frame moments
 
 
 def m0eqp_ratio(NEd_kN: float, N_qp_kN: float, moments: Sequence[tuple[float, float]]) -> float:
@@ -381,12 +382,13 @@ def joint_moments(scenario: Scenario, tributary: Mapping[str, LevelTributary],
                         bot[(above, name, axis)] = m_above
                 # quasi-permanent combination Gk + psi2 Qk (EN 1990, Eq. (6.16b)) for M0Eqp of
                 # EN 1992-1-1, 5.8.4(2): the same sub-frame, unfactored, pattern of psi2 q
-                w_qp = (g + PSI_FACTORS[lf.category].psi2 * q) * width
-                m_below, m_above = distribute_to_columns(out_of_balance_moment(w_qp, g * width, s1, s2),
-                                                         k_below, k_above, k_slabs)
-                top[(c.id, QP, axis)] = m_below
-                if above is not None:
-                    bot[(above, QP, axis)] = m_above
+                # and the characteristic combination Gk + Qk (EN 1990, Eq. (6.14b)) for 7.2(2)
+                for name, w in ((QP, (g + PSI_FACTORS[lf.category].psi2 * q) * width), (CHAR, (g + q) * width)):
+                    m_below, m_above = distribute_to_columns(out_of_balance_moment(w, g * width, s1, s2),
+                                                             k_below, k_above, k_slabs)
+                    top[(c.id, name, axis)] = m_below
+                    if above is not None:
+                        bot[(above, name, axis)] = m_above
     warnings = []
     if no_span:
         shown = ", ".join(no_span[:8]) + (" ..." if len(no_span) > 8 else "")
@@ -569,9 +571,13 @@ def _tables(scenario: Scenario, loads: Mapping[CellId, _Load],
         NEd, expr = combine(load.G_kN, q_red, psi_q, scenario.params,
                             scenario.takedown.combination)
         N_qp = load.G_kN + sum(PSI_FACTORS[cat].psi2 * v[0] for (cat, _), v in load.Q.items())
-        ratio = m0eqp_ratio(NEd, N_qp, [(max(top.get((c.id, e, ax), 0.0), bot.get((c.id, e, ax), 0.0)),
-                                        max(top.get((c.id, QP, ax), 0.0), bot.get((c.id, QP, ax), 0.0)))
-                                       for e in (expr,) for ax in ("y", "z")])
+        N_char = load.G_kN + q_red
+
+        def ends(key: str, ax: str, cid: CellId = c.id) -> float:
+            return max(top.get((cid, key, ax), 0.0), bot.get((cid, key, ax), 0.0))
+
+        ratio = m0eqp_ratio(NEd, N_qp, [(ends(expr, ax), ends(QP, ax)) for ax in ("y", "z")])
+        char = m0eqp_ratio(NEd, N_char, [(ends(expr, ax), ends(CHAR, ax)) for ax in ("y", "z")])
         row = {
             "stack": c.stack, "level": c.level, "NEd_kN": NEd,
             "My_top_kNm": top.get((c.id, expr, "y"), 0.0),
@@ -580,7 +586,7 @@ def _tables(scenario: Scenario, loads: Mapping[CellId, _Load],
             "Mz_bot_kNm": bot.get((c.id, expr, "z"), 0.0),
             "l0y_mm": c.l0y_mm, "l0z_mm": c.l0z_mm,
             "exposure": c.settings.exposure, "fire": c.settings.fire,
-            "M0Eqp_ratio": ratio,
+            "M0Eqp_ratio": ratio, "char_ratio": char,
         }
         if any_k:
             el = c.settings.effective_length
@@ -595,7 +601,7 @@ def _tables(scenario: Scenario, loads: Mapping[CellId, _Load],
             "Gk_floor_kN": fr["G_floor"], "Qk_floor_kN": fr["Q_floor"],
             "self_weight_kN": fr["self"], "Gk_kN": load.G_kN, "Qk_kN": load.Qk_kN,
             "Qk_reduced_kN": q_red, "reduction": reduction, "expression": expr, "NEd_kN": NEd,
-            "N_qp_kN": N_qp, "M0Eqp_ratio": ratio,
+            "N_qp_kN": N_qp, "M0Eqp_ratio": ratio, "N_char_kN": N_char, "char_ratio": char,
         })
     actions = pd.DataFrame(rows)
     for col in ("l0y_mm", "l0z_mm"):
@@ -692,7 +698,7 @@ def write_actions_csv(actions: pd.DataFrame, path: str | Path) -> Path:
     """Write an actions table in the CSV format (kN, kNm, mm; compression positive).
 
     Columns: ``stack, level, NEd_kN, My_top_kNm, My_bot_kNm, Mz_top_kNm,
-    Mz_bot_kNm`` then, when present, ``l0y_mm, l0z_mm, exposure, fire, M0Eqp_ratio`` and
+    Mz_bot_kNm`` then, when present, ``l0y_mm, l0z_mm, exposure, fire, M0Eqp_ratio, char_ratio`` and
     ``k1y, k2y, k1z, k2z``.
     """
     missing = [c for c in ACTION_COLUMNS if c not in actions.columns]
@@ -814,12 +820,13 @@ def _csv_record(file: str, n: int, rec: Mapping[str, str]) -> dict[str, Any]:
         out["exposure"] = _exposure(file, f"row {n}, column exposure", rec["exposure"])
     if rec.get("fire", ""):
         out["fire"] = _fire(file, f"row {n}, column fire", rec["fire"])
-    if rec.get("M0Eqp_ratio", ""):
-        x = _csv_float(file, n, "M0Eqp_ratio", rec["M0Eqp_ratio"], 0.0)
-        if x > 1.5:
-            raise InputError(file, f"row {n}, column M0Eqp_ratio", rec["M0Eqp_ratio"],
-                             "M0Eqp/M0Ed between 0 and 1.5 (quasi-permanent over design first-order moment)")
-        out["M0Eqp_ratio"] = x
+    for col, what in (("M0Eqp_ratio", "M0Eqp/M0Ed between 0 and 1.5 (quasi-permanent over design first-order moment)"),
+                      ("char_ratio", "a ratio between 0 and 1.5 (characteristic over design actions)")):
+        if rec.get(col, ""):
+            x = _csv_float(file, n, col, rec[col], 0.0)
+            if x > 1.5:
+                raise InputError(file, f"row {n}, column {col}", rec[col], what)
+            out[col] = x
     return out
 
 
@@ -839,13 +846,14 @@ def _actions_frame(scenario: Scenario, records: Mapping[CellId, dict[str, Any]],
         row["exposure"] = rec.get("exposure", c.settings.exposure)
         row["fire"] = rec.get("fire", c.settings.fire)
         row["M0Eqp_ratio"] = rec.get("M0Eqp_ratio", math.nan)  # blank: not known (phi_ef with 1.0, said)
+        row["char_ratio"] = rec.get("char_ratio", math.nan)  # blank: design actions for 7.2(2), said
         if any_k:
             for k in K_COLUMNS:
                 default = getattr(el, k) if el is not None else None
                 row[k] = rec.get(k, default)
         rows.append(row)
     df = pd.DataFrame(rows)
-    for col in ("l0y_mm", "l0z_mm", "M0Eqp_ratio", *(K_COLUMNS if any_k else ())):
+    for col in ("l0y_mm", "l0z_mm", "M0Eqp_ratio", "char_ratio", *(K_COLUMNS if any_k else ())):
         df[col] = df[col].astype(float)
     return df
 

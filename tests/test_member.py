@@ -166,7 +166,8 @@ def test_vectorised_equals_single_column():
 def test_exact_biaxial_reported_and_consistent():
     """The direction-exact check on the resistance surface is never more onerous than 5.39 with a >= 1
     for moments along a principal axis (it then equals the uniaxial ratio)."""
-    r = check_column(SQ, ColumnActions(NEd=2000e3, My_top=150e6, My_bot=150e6, l0y=2000, l0z=2000, l_clear=2000),
+    r = check_column(SQ, ColumnActions(NEd=2000e3, My_top=150e6, My_bot=150e6, l0y=2000, l0z=2000, l_clear=2000,
+                                       phi_ef=1.0),
                      CheckSettings(exact_biaxial=True, min_eccentricity=MinEccentricity.ONE_AXIS))
     v = r.values
     assert v["MEdz"] == pytest.approx(0.0)
