@@ -229,7 +229,10 @@ def beta_enhanced(NEd: ArrayLike, b: ArrayLike, h: ArrayLike, f_cu: ArrayLike) -
     beta falls linearly from 1.00 at N/(b h fcu) = 0 to 0.30 at >= 0.6
     (0.88, 0.77, 0.65, 0.53, 0.42 at 0.1 ... 0.5). The table is indexed by
     the cube strength fcu; pass fck,cube (EN 1992-1-1 Table 3.1, e.g. 37 MPa
-    for C30/37). This is an optional comparison, not an EN 1992 method.
+    for C30/37). This is an optional comparison, not an EN 1992 method, and
+    never the pass/fail route: at high axial load it can be unconservative
+    (about 0.92 where strain compatibility gives 1.00 at 0.6 NRd; see
+    tests/test_safety_review.py).
 
     Args:
         NEd: design axial force, N.
