@@ -187,21 +187,24 @@ _CLASS_RE = re.compile(r"^\s*C?\s*(\d+(?:\.\d+)?)\s*(?:/\s*(\d+(?:\.\d+)?))?\s*$
 
 
 def parse_concrete_class(text: str) -> float:
-    """Return fck (MPa) from a strength class such as ``"C30/37"`` or ``"C30"``.
+    """Return fck (MPa) of a strength class written in full, such as ``"C30/37"``.
 
-    A cube strength, when given, must match EN 1992-1-1 Table 3.1.
+    EN 1992-1-1, Table 3.1: the class names the cylinder and the cube strength.
+    A name written in part ("C35", "35/45") or with a cube strength that is
+    not the table's is refused with the class meant, never read silently
+    (a strength outside the table is given as fck in MPa instead).
     """
     m = _CLASS_RE.match(str(text))
-    if not m:
-        msg = f"concrete class {text!r} is not of the form C30/37"
+    fck = float(m.group(1)) if m else None
+    expected = STANDARD_CLASSES.get(int(fck)) if fck is not None and fck.is_integer() else None
+    meant = f"C{fck:g}/{expected}" if expected is not None else None
+    ok = (m is not None and text.strip()[:1].upper() == "C" and m.group(2) is not None
+          and expected is not None and abs(float(m.group(2)) - expected) < 1e-9)
+    if not ok:
+        hint = f"; did you mean {meant!r}?" if meant else ""
+        msg = (f"concrete class {text!r} is not a strength class of EN 1992-1-1 Table 3.1 written in full "
+               f"(e.g. 'C30/37'){hint}")
         raise ValueError(msg)
-    fck = float(m.group(1))
-    if m.group(2) is not None:
-        cube = float(m.group(2))
-        expected = STANDARD_CLASSES.get(int(fck)) if fck.is_integer() else None
-        if expected is None or abs(cube - expected) > 1e-9:
-            msg = f"concrete class {text!r}: cube strength {cube:g} does not match Table 3.1"
-            raise ValueError(msg)
     return fck
 
 

@@ -3,6 +3,11 @@
 Prints NRd, the tension resistance and MRdy, MRdz at the given NEd (at 0 when
 NEd is absent); ``--json`` prints one JSON object; ``--plot FILE.png`` draws
 both N-M interaction curves with the NEd point marked.
+
+Values that cannot be meant (a side of 0.4 mm, a force fifty times the squash
+load: see :mod:`optimizer.plausibility`) are input errors (exit status 2);
+unusual ones are warnings on stderr and in the ``warnings`` list of ``--json``.
+Exit status 0 otherwise: the command reports resistances, it judges nothing.
 """
 
 from __future__ import annotations
@@ -22,8 +27,6 @@ from optimizer.errors import InputError
 from optimizer.spec import SectionSpec, load_spec_file, section_spec
 
 __all__ = ["add_parser", "run", "SectionReport", "evaluate"]
-
-
 
 @dataclass(frozen=True)
 class SectionReport:
@@ -74,13 +77,17 @@ def add_parser(subparsers: argparse._SubParsersAction) -> argparse.ArgumentParse
     return p
 
 
-def _text(spec: SectionSpec, rep: SectionReport, dg_note: str) -> str:
+def _text(spec: SectionSpec, rep: SectionReport, dg_note: str, overrides: dict | None = None) -> str:
     ds = spec.design
     sec, c, s = ds.section, ds.concrete, ds.steel
     if isinstance(sec, RectSection):
         shape = f"{sec.b:g} x {sec.h:g} mm rectangle (b along y, h along z)"
+        arm_y, arm_z = "lever arm along h", "lever arm along b"
     else:
         shape = f"circle, diameter {sec.diameter:g} mm"
+        arm_y = arm_z = "lever arm along the diameter"
+    changed = [f"{k} = {v:g}" for k, v in (overrides or {}).items() if isinstance(v, (int, float))]
+    params_text = spec.params.name + (f", with {', '.join(changed)}" if changed else "")
     spacing = check_bar_spacing(sec, spec.aggregate_mm)
     lines = [
         f"colstack section  {Path(spec.path).name}",
@@ -92,18 +99,17 @@ def _text(spec: SectionSpec, rep: SectionReport, dg_note: str) -> str:
         f"({100 * rep.rho:.2f} % of Ac = {rep.Ac_mm2:,.0f} mm2)",
         f"  concrete         {c.name}: fck {c.fck:g} MPa, fcd = alpha_cc fck / gamma_c = "
         f"{c.alpha_cc:g} x {c.fck:g} / {c.gamma_c:g} = {c.fcd:.2f} MPa  [EN 1992-1-1 Eq. (3.15)]",
-        f"                   {ds.law.value} law, eps_c2 = {1e3 * c.eps_c2:.2f}, eps_cu2 = "
+        f"                   {ds.law.value} law, eps_c2 = {1e3 * c.eps_c2:.2f} per mille, eps_cu2 = "
         f"{1e3 * c.eps_cu2:.2f} per mille, n = {c.n:.2f}  [Table 3.1]",
         f"  steel            fyk {s.fyk:g} MPa, fyd = {s.fyd:.1f} MPa, Es = {s.Es / 1e3:g} GPa, class "
         f"{s.ductility.value}, {s.branch.value} top branch  [3.2.7(2)]",
-        f"  parameters       {spec.params.name}",
+        f"  parameters       {params_text}",
         "",
         f"  NRd              {rep.NRd_kN:,.0f} kN   pure compression, uniform strain eps_c2  [6.1(5)]",
-        f"  NRd,t            {rep.NRd_tension_kN:,.0f} kN   pure tension (steel only)",
+        f"  NRd,t            {rep.NRd_tension_kN:,.0f} kN   pure tension (steel only; tension negative)",
         f"  at NEd = {rep.NEd_kN:,.0f} kN:",
-        f"  MRdy             {rep.MRdy_kNm:,.1f} kNm   about y, lever arm along h  "
-        "[6.1, strain compatibility]",
-        f"  MRdz             {rep.MRdz_kNm:,.1f} kNm   about z, lever arm along b",
+        f"  MRdy             {rep.MRdy_kNm:,.1f} kNm   about y, {arm_y}  [6.1, strain compatibility]",
+        f"  MRdz             {rep.MRdz_kNm:,.1f} kNm   about z, {arm_z}",
         f"  bar spacing      clear {spacing.capacity:.0f} mm, minimum {spacing.demand:.0f} mm "
         f"({'ok' if spacing.ok else 'TOO CLOSE'})  [8.2(2)]{dg_note}",
     ]
@@ -158,6 +164,8 @@ def run(args: argparse.Namespace) -> int:
         if out.resolve() == Path(args.spec).resolve():
             raise InputError("--plot", "--plot", args.plot, "a new file, not the specification itself")
         plot_interaction(spec.design, NEd_kN, out)
+    for w in spec.warnings:
+        print(f"colstack section: warning: {w}", file=sys.stderr)
     if args.json:
         payload = {
             "section": rep.label,
@@ -174,12 +182,14 @@ def run(args: argparse.Namespace) -> int:
             "fyd_MPa": spec.design.steel.fyd,
             "law": spec.design.law.value,
             "parameters": spec.params.name,
+            "warnings": list(spec.warnings),
             "caution": CAUTION,
         }
         print(json.dumps(payload, indent=2))
     else:
         note = "" if "aggregate" in data else " (aggregate 20 mm assumed)"
-        print(_text(spec, rep, note))
+        overrides = data.get("parameters") if isinstance(data.get("parameters"), dict) else None
+        print(_text(spec, rep, note, overrides))
         if args.plot:
             print(f"\n  interaction curves written to {args.plot}")
     sys.stdout.flush()

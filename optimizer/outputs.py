@@ -53,11 +53,18 @@ def _links_text(r: RunResult, t: int) -> str:
 
 
 def cells_frame(r: RunResult) -> pd.DataFrame:
-    """One row per cell: actions, design moments, slenderness, chosen type, check outcome, steel."""
+    """One row per cell: actions, design moments, slenderness, chosen type, check outcome, steel.
+
+    ``utilisation``/``governing`` are over every check (detailing, cover and fire included);
+    ``utilisation_resistance``/``governing_resistance`` are the strength of the column alone
+    (axial, bending, biaxial and the other checks of kind resistance, design/results.py).
+    """
     v = r.checks.values
     fe = r.feasibility
     util = r.checks.utilisation
     gov = r.checks.governing
+    util_res = r.checks.resistance_utilisation
+    gov_res = r.checks.governing_resistance
     unverified = r.checks.unverified
     rows = []
     for i, (stack, level) in enumerate(fe.cells.cells):
@@ -65,6 +72,7 @@ def cells_frame(r: RunResult) -> pd.DataFrame:
         ct = r.catalogue.types[t]
         k = r.chosen_cand[i]
         check = r.checks.checks[int(gov[i])]
+        res = r.checks.checks[int(gov_res[i])]
         rows.append({
             "stack": stack, "level": level,
             "NEd_kN": round(float(v["NEd"][i]) / 1e3, 1),
@@ -76,6 +84,7 @@ def cells_frame(r: RunResult) -> pd.DataFrame:
             "links": _links_text(r, t), "grade": ct.design.concrete.name,
             "orientation": "turned 90 deg" if r.chosen_orient[i] else "as given",
             "utilisation": round(float(util[i]), 3), "governing": check.name, "clause": check.clause,
+            "utilisation_resistance": round(float(util_res[i]), 3), "governing_resistance": res.name,
             "fire_verified": not bool(unverified[i]),
             "steel_kg": round(float(fe.steel_kg[k]), 2), "main_bars_kg": round(float(fe.main_kg[k]), 2),
             "lap_kg": round(float(fe.lap_kg[k]), 2), "links_kg": round(float(fe.link_kg[k]), 2),
@@ -198,6 +207,7 @@ def summary_dict(r: RunResult) -> dict:
                    "gap_target": r.settings.solver.gap_rel, "notes": list(s.notes)},
         "baseline": base,
         "max_utilisation": float(np.max(r.checks.utilisation)),
+        "max_resistance_utilisation": float(np.max(r.checks.resistance_utilisation)),
         "timings_s": r.timings_s,
         "warnings": r.warnings,
         "notes": r.notes,

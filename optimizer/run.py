@@ -197,12 +197,25 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
     if schedule.status not in ("optimal", "within gap"):
         warnings.append(f"solver stopped with status '{schedule.status}': proven gap {100 * schedule.gap:.2f} % "
                         f"(requested {100 * opts.gap_rel:g} %)")
-    notes = list(td.notes) if td is not None else ["actions from an analysis (CSV route)"]
+    # the takedown states lateral stability too; the run's own sentence covers both routes, once
+    notes = [n for n in td.notes if not n.startswith("Lateral stability")] if td is not None \
+        else ["actions from an analysis (CSV route)"]
+    ratio_known = bool(np.all(np.isfinite(fe.cells.M0Eqp_ratio)))
     notes += [
         "Lateral stability is assumed to be provided by the cores: every column is checked as braced "
         "(EN 1992-1-1 5.8.3.2, Eq. (5.15)).",
         "Second-order effects by the nominal curvature method (EN 1992-1-1 5.8.8); imperfections in the "
-        "more unfavourable direction only (5.8.9(2)); minimum moment NEd e0 about both axes (6.1(4)).",
+        "more unfavourable direction only (5.8.9(2)); minimum moment NEd e0 about both axes (6.1(4)); "
+        "rm from the end moments with the imperfection moment (5.8.3.1); c = 8 for a constant first-order "
+        "moment, 10 where it changes sign, linear between (5.8.8.2(4)).",
+        f"Creep: phi_ef = phi(inf, t0) M0Eqp/M0Ed per cell and section (EN 1992-1-1 5.8.4, Eq. (5.19)), "
+        f"phi(inf, t0) by Annex B with {scenario.creep.describe()}"
+        + ("" if scenario.creep_given else " (defaults: give [creep] to change them)") + "; M0Eqp/M0Ed "
+        + ("from the quasi-permanent combination Gk + psi2 Qk of the takedown"
+           if ratio_known else "taken as 1.0 (upper bound) where the actions do not give it")
+        + "; non-linear creep (Eq. (3.7)) where the quasi-permanent stress exceeds 0.45 fck.",
+        "Shear from the end moments, VEd = (|Mtop| + |Mbot|)/l, against VRd,c or the links (EN 1992-1-1 6.2); "
+        "lap zone: bars below plus bars above <= 0.08 Ac (9.5.2(3)), checked on the schedule.",
         "Biaxial bending by EN 1992-1-1 Eq. (5.39) with the criteria of 5.38; section resistance by strain "
         "compatibility (6.1), parabola-rectangle concrete, horizontal steel top branch.",
         "Fire: EN 1992-1-2 5.3.2 method A, Table 5.2a, mu_fi = 0.7; l0,fi = 0.5 l (0.7 l in the top storey) "
@@ -342,6 +355,7 @@ def recheck(scenario: Scenario, cat: Catalogue, fe: Feasibility, chosen_type: np
 def _merge(parts: list[tuple[np.ndarray, MemberChecks]], n: int) -> MemberChecks:
     """Put per-group check results back in cell order (checks present in a group only are padded)."""
     from design.member import CheckColumn
+    from design.results import CheckKind
 
     names: list[tuple[str, str, str]] = []
     for _, res in parts:
@@ -356,6 +370,7 @@ def _merge(parts: list[tuple[np.ndarray, MemberChecks]], n: int) -> MemberChecks
         applicable = np.ones(n, dtype=bool)
         notes = [""] * n
         blocking = True
+        kind = CheckKind.RESISTANCE
         for cc, res in parts:
             match = [c for c in res.checks if (c.name, c.clause, c.unit) == (name, clause, unit)]
             if not match:
@@ -363,12 +378,12 @@ def _merge(parts: list[tuple[np.ndarray, MemberChecks]], n: int) -> MemberChecks
                     notes[i] = "not required for this cell"
                 continue
             c = match[0]
-            blocking = c.blocking
+            blocking, kind = c.blocking, c.kind
             demand[cc], capacity[cc], applicable[cc] = c.demand, c.capacity, c.applicable
             for j, i in enumerate(cc):
                 notes[i] = c.result(j).note
         cols.append(CheckColumn(name, clause, unit, demand, capacity, applicable, np.array(notes, dtype=object),
-                                blocking))
+                                blocking, kind))
     values: dict[str, np.ndarray] = {}
     for key in parts[0][1].values:
         sample = parts[0][1].values[key]

@@ -9,20 +9,24 @@ the value.
 
 from __future__ import annotations
 
+import difflib
 import json
 import math
+import re
 import tomllib
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from design.materials import Concrete, ConcreteLaw, Ductility, Reinforcement, TopBranch, parse_concrete_class
+from design.materials import STANDARD_CLASSES, Concrete, ConcreteLaw, Ductility, Reinforcement, TopBranch
 from design.params import NationalParameters, parameter_set, with_overrides
 from design.resistance import DesignSection
 from design.sections import CircBars, CircSection, RectBars, RectSection
 from optimizer.errors import InputError, reject_unknown_keys
+from optimizer.plausibility import SectionCapacity, spec_force_problem, spec_side_problem, spec_warnings
 
-__all__ = ["SectionSpec", "load_spec_file", "section_spec", "check_keys", "number"]
+__all__ = ["SectionSpec", "load_spec_file", "section_spec", "check_keys", "number", "concrete_class",
+           "section_capacity"]
 
 SECTION_KEYS = {
     "b", "h", "diameter", "cover", "link", "fck", "grade", "fyk", "ductility", "branch", "law",
@@ -43,6 +47,8 @@ class SectionSpec:
     params: NationalParameters
     NEd_kN: float | None
     aggregate_mm: float
+    capacity: SectionCapacity | None = None
+    warnings: tuple[str, ...] = ()  # plausibility warnings (unusual values), one sentence each
 
 
 def load_spec_file(path: str | Path) -> dict[str, Any]:
@@ -102,6 +108,51 @@ def _required(path: str, data: dict, key: str, where: str = "") -> Any:
     return data[key]
 
 
+#: The strength classes of EN 1992-1-1 Table 3.1 by their full names ("C35/45" -> 35 MPa).
+CLASS_NAMES: dict[str, float] = {f"C{fck}/{cube}": float(fck) for fck, cube in STANDARD_CLASSES.items()}
+
+
+def concrete_class(path: str, field: str, value: Any) -> float:
+    """The fck (MPa) of a strength class written in full as in EN 1992-1-1 Table 3.1 (``"C35/45"``).
+
+    A class written in part (``"C35"``, ``"35/45"``) or with the wrong cube strength is an
+    error that names the class meant, never a silent reading.
+    """
+    expected = "a strength class of EN 1992-1-1 Table 3.1 written in full, e.g. \"C30/37\""
+    if not isinstance(value, str):
+        raise InputError(path, field, value, expected)
+    key = re.sub(r"\s+", "", value).upper()
+    if key in CLASS_NAMES:
+        return CLASS_NAMES[key]
+    m = re.search(r"\d+(?:\.\d+)?", key)
+    fck = float(m.group()) if m else None
+    meant = next((name for name, f in CLASS_NAMES.items() if f == fck), None)
+    if meant is None:
+        close = difflib.get_close_matches(key, list(CLASS_NAMES), n=1, cutoff=0.6)
+        meant = close[0] if close else None
+    hint = f"; did you mean {meant}?" if meant else f" (one of {', '.join(CLASS_NAMES)})"
+    raise InputError(path, field, value, expected + hint)
+
+
+def section_capacity(design: DesignSection) -> SectionCapacity:
+    """Closed-form bounds of a section for the plausibility of its actions (kN, kNm, mm)."""
+    sec, c, s = design.section, design.concrete, design.steel
+    squash = (sec.Ac * c.fcd + sec.As * s.fyd) / 1e3
+    if isinstance(sec, CircSection):
+        hy = hz = sec.diameter
+    else:
+        hy, hz = sec.h, sec.b
+    return SectionCapacity(squash_kN=squash, tension_kN=sec.As * s.fyd / 1e3,
+                           moment_bound_kNm=squash * max(hy, hz) / 2 / 1e3, h_y_mm=hy, h_z_mm=hz)
+
+
+def _plausible(path: str, field: str, value: float, kind: str, raw: Any) -> None:
+    """InputError (naming the value as written) for a dimension no one can mean."""
+    problem = spec_side_problem(value, kind)
+    if problem is not None:
+        raise InputError(path, field, raw, problem)
+
+
 def _choice(path: str, field: str, value: Any, enum: type) -> Any:
     try:
         return enum(value)
@@ -134,12 +185,7 @@ def section_spec(data: dict[str, Any], path: str, extra_keys: set[str] = frozens
     if "fck" in data and "grade" in data:
         raise InputError(path, "grade", data["grade"], "give either fck or grade, not both")
     if "grade" in data:
-        if not isinstance(data["grade"], str):
-            raise InputError(path, "grade", data["grade"], 'a concrete class as text, e.g. "C30/37"')
-        try:
-            fck = parse_concrete_class(data["grade"])
-        except ValueError as exc:
-            raise InputError(path, "grade", data["grade"], str(exc)) from None
+        fck = concrete_class(path, "grade", data["grade"])
     else:
         fck = number(path, "fck", _required(path, data, "fck"), minimum=12, maximum=90, unit="MPa")
     try:
@@ -156,7 +202,9 @@ def section_spec(data: dict[str, Any], path: str, extra_keys: set[str] = frozens
     law = _choice(path, "law", data.get("law", ConcreteLaw.PARABOLA_RECTANGLE.value), ConcreteLaw)
 
     cover = number(path, "cover", _required(path, data, "cover"), positive=True, allow_zero=False, unit="mm")
+    _plausible(path, "cover", cover, "cover", data["cover"])
     link = number(path, "link", _required(path, data, "link"), positive=True, allow_zero=False, unit="mm")
+    _plausible(path, "link", link, "bar", data["link"])
     bars = _required(path, data, "bars")
     if not isinstance(bars, dict):
         raise InputError(path, "bars", bars, "a table such as {dia = 25, nb = 3, nh = 4}")
@@ -166,31 +214,42 @@ def section_spec(data: dict[str, Any], path: str, extra_keys: set[str] = frozens
                 raise InputError(path, "diameter", data["diameter"], "give b and h, or diameter, not both")
             check_keys(path, "bars", bars, {"dia", "n"})
             diameter = number(path, "diameter", data["diameter"], positive=True, allow_zero=False, unit="mm")
+            _plausible(path, "diameter", diameter, "side", data["diameter"])
             dia = number(path, "bars.dia", _required(path, bars, "dia", "bars"), positive=True,
                          allow_zero=False, unit="mm")
+            _plausible(path, "bars.dia", dia, "bar", bars["dia"])
             n = _integer(path, "bars.n", _required(path, bars, "n", "bars"), 3)
             section = CircSection(diameter, cover, link, CircBars(dia, n))
         else:
             check_keys(path, "bars", bars, {"dia", "nb", "nh", "corner_dia"})
             b = number(path, "b", _required(path, data, "b"), positive=True, allow_zero=False, unit="mm")
+            _plausible(path, "b", b, "side", data["b"])
             h = number(path, "h", _required(path, data, "h"), positive=True, allow_zero=False, unit="mm")
+            _plausible(path, "h", h, "side", data["h"])
             dia = number(path, "bars.dia", _required(path, bars, "dia", "bars"), positive=True,
                          allow_zero=False, unit="mm")
+            _plausible(path, "bars.dia", dia, "bar", bars["dia"])
             nb = _integer(path, "bars.nb", _required(path, bars, "nb", "bars"), 2)
             nh = _integer(path, "bars.nh", _required(path, bars, "nh", "bars"), 2)
             corner = bars.get("corner_dia")
             if corner is not None:
                 corner = number(path, "bars.corner_dia", corner, positive=True, allow_zero=False, unit="mm")
+                _plausible(path, "bars.corner_dia", corner, "bar", bars["corner_dia"])
             section = RectSection(b, h, cover, link, RectBars(dia, nb, nh, corner))
     except ValueError as exc:
         raise InputError(path, "section", data.get("bars"), str(exc)) from None
 
+    design = DesignSection(section, concrete, steel, law)
+    cap = section_capacity(design)
     NEd = None
     if "NEd" in data:
         NEd = number(path, "NEd", data["NEd"], unit="kN")
+        problem = spec_force_problem(NEd, cap)
+        if problem is not None:
+            raise InputError(path, "NEd", data["NEd"], problem)
     aggregate = number(path, "aggregate", data.get("aggregate", 20.0), positive=True, allow_zero=False,
                        unit="mm")
-    return SectionSpec(path, DesignSection(section, concrete, steel, law), params, NEd, aggregate)
+    return SectionSpec(path, design, params, NEd, aggregate, cap, tuple(spec_warnings(path, NEd, cap)))
 
 
 def _integer(path: str, field: str, value: Any, minimum: int) -> int:

@@ -81,6 +81,9 @@ def test_json_circle_with_overrides(tmp_path, capsys):
         (lambda s: s + "\n[parameters]\nalpha_cc = 1.5\n", "alpha_cc"),
         (lambda s: s.replace("h = 600", "h = 600\n["), "valid TOML"),
         (lambda s: s.replace("b = 400", "b = 100"), "do not fit"),
+        (lambda s: s.replace("fck = 40", 'grade = "C40"'), "did you mean C40/50?"),
+        (lambda s: s.replace("b = 400", "b = 0.4"), "b = 0.4: a section dimension in mm is expected"),
+        (lambda s: s.replace("NEd = 2500", "NEd = 2500000"), "did you mean 2500 (N typed for kN)?"),
     ],
 )
 def test_bad_input_one_line_exit_2(tmp_path, capsys, edit, needle):
@@ -95,3 +98,17 @@ def test_bad_input_one_line_exit_2(tmp_path, capsys, edit, needle):
 def test_missing_file(tmp_path, capsys):
     assert main(["section", str(tmp_path / "nope.toml")]) == 2
     assert "nope.toml" in capsys.readouterr().err
+
+
+def test_json_lists_warnings_and_stderr_repeats_them(tmp_path, capsys):
+    """NEd above the squash load Ac fcd + As fyd (EN 1992-1-1 5.8.9(4)) is possible input, but worth a warning."""
+    squash = (400 * 600 * 40 / 1.5 + 10 * np.pi * 25**2 / 4 * 500 / 1.15) / 1e3
+    spec = write(tmp_path, "col.toml", GOOD.replace("NEd = 2500", f"NEd = {squash * 1.05:.0f}"))
+    assert main(["section", str(spec), "--json"]) == 0
+    captured = capsys.readouterr()
+    out = json.loads(captured.out)
+    assert len(out["warnings"]) == 1 and "above the squash load" in out["warnings"][0]
+    assert f"{squash:,.0f} kN" in out["warnings"][0]
+    assert captured.err.strip() == f"colstack section: warning: {out['warnings'][0]}"
+    assert main(["section", str(write(tmp_path, "ok.toml", GOOD)), "--json"]) == 0
+    assert json.loads(capsys.readouterr().out)["warnings"] == []

@@ -189,7 +189,9 @@ def test_report_has_caution_marks_and_one_sheet_per_type(out, run):
         stack, level = run.feasibility.cells.cells[i]
         assert f"Type {m}: governing cell {stack} at level {level}" in page
         cells = np.array(next(u.cells for u in run.types_used if u.mark == m))
-        assert run.checks.utilisation[i] == run.checks.utilisation[cells].max()
+        # the governing cell is where the type's strength works hardest, not where cover or fire govern
+        res = np.asarray(run.checks.resistance_utilisation)
+        assert res[i] == pytest.approx(res[cells].max(), rel=1e-12)
     assert page.count("PASSES: utilisation") == len(marks)
     # self-contained: no scripts, nothing loaded from elsewhere
     assert "<script" not in page.lower()
@@ -198,6 +200,52 @@ def test_report_has_caution_marks_and_one_sheet_per_type(out, run):
     assert page.count("data:image/png;base64,") >= 1 + len(marks)  # elevation + curves per type
     # print rules
     assert "@page" in page and "break-before: page" in page
+
+
+def test_run_checks_keep_their_kinds(run):
+    """The exact re-check of the run keeps each check's kind (resistance, detailing, cover, fire)."""
+    from design.results import CheckKind
+
+    kinds = {c.name: c.kind for c in run.checks.checks}
+    assert kinds["biaxial interaction"] is CheckKind.RESISTANCE
+    assert kinds["nominal cover to links"] is CheckKind.COVER
+    assert kinds["link diameter"] is CheckKind.DETAILING
+    assert {kinds[n] for n in kinds if n.startswith("fire resistance")} == {CheckKind.FIRE}
+
+
+def test_cells_csv_gives_resistance_beside_overall(csv, run):
+    from design.results import CheckKind
+
+    cells = csv["cells"]
+    cols = list(cells.columns)
+    # the new columns sit beside the overall ones; the old columns are all still there
+    assert cols[cols.index("clause") + 1: cols.index("clause") + 3] == ["utilisation_resistance",
+                                                                        "governing_resistance"]
+    for old in ("utilisation", "governing", "clause", "fire_verified", "steel_kg"):
+        assert old in cols
+    assert np.allclose(cells["utilisation_resistance"], np.round(run.checks.resistance_utilisation, 3), atol=1e-9)
+    assert (cells["utilisation_resistance"] <= cells["utilisation"] + 1e-9).all()
+    kinds = {c.name: c.kind for c in run.checks.checks}
+    assert {kinds[n] for n in cells["governing_resistance"]} == {CheckKind.RESISTANCE}
+    # where strength governs overall, both columns name the same check
+    same = cells["utilisation_resistance"] == cells["utilisation"]
+    assert (cells.loc[same, "governing"] == cells.loc[same, "governing_resistance"]).all()
+
+
+def test_report_states_lateral_stability_once_and_resistance_per_type(out, run):
+    page = html.unescape((out / "report.html").read_text(encoding="utf-8"))
+    assert page.count("Lateral stability") == 1
+    text = re.sub(r"<[^>]+>", "", page)
+    for u in run.types_used:
+        i = governing_cell(run, u.mark)
+        res = run.checks.checks[int(run.checks.governing_resistance[i])]
+        gov = run.checks.checks[int(run.checks.governing[i])]
+        want = f"resistance {run.checks.resistance_utilisation[i]:.3f} ({res.name})"
+        if gov.name != res.name:
+            want += f"; overall {run.checks.utilisation[i]:.3f} ({gov.name})"
+        assert want in text, (u.mark, want)
+    # each sheet opens with the governing check of every kind
+    assert page.count("governing resistance check") == len(run.types_used)
 
 
 def test_interrupted_run_leaves_previous_output_intact(run, tmp_path):
