@@ -31,7 +31,8 @@ from typing import Any
 import numpy as np
 
 from design import slenderness
-from design.cover import ExposureClass
+from design.cover import parse_exposure
+from design.creep import CementClass, CreepSettings
 from design.fire import FireRating
 from design.member import BiaxialMethod, CheckSettings, ColumnActions, MinEccentricity, check_column
 from design.results import CheckKind
@@ -50,7 +51,8 @@ EXIT_FAIL = 1  # the column fails a check (bad input is 2, optimizer.errors.EXIT
 CHECK_KEYS = {
     "My", "Mz", "l0y", "l0z", "height", "l0_factor", "l0_factor_y", "l0_factor_z", "k1y", "k2y", "k1z",
     "k2z", "braced", "phi_ef", "exposure", "fire", "mu_fi", "imperfection", "min_eccentricity", "biaxial",
-    "working_life_100y", "l0_fi",
+    "working_life_100y", "l0_fi", "M0Eqp_ratio", "char_ratio", "As_below", "s_link", "s_link_zone", "VEd",
+    "relative_humidity", "age_at_loading", "cement_class", "curvature_c",
 }
 
 
@@ -119,8 +121,8 @@ def _effective_lengths(path: str, data: dict) -> tuple[float, float, float | Non
         elif all(k in data for k in ks):
             if height is None:
                 raise InputError(path, "height", None, f"needed with {ks[0]}/{ks[1]} (clear height, mm)")
-            k1 = number(path, ks[0], data[ks[0]], positive=True)
-            k2 = number(path, ks[1], data[ks[1]], positive=True)
+            k_given = [number(path, k, data[k], positive=True) for k in ks]
+            k1, k2 = (float(slenderness.k_restraint(k)) for k in k_given)
             fn = slenderness.l0_braced if braced else slenderness.l0_unbraced
             l0[ax] = float(fn(height, k1, k2))
             if braced:
@@ -128,6 +130,10 @@ def _effective_lengths(path: str, data: dict) -> tuple[float, float, float | Non
                              f"(1 + {k2:g}/(0.45 + {k2:g})))")
             else:
                 notes[ax] = f"Eq. (5.16), unbraced: clear height {height:,.0f} mm, k1 = {k1:g}, k2 = {k2:g}"
+            raised = [f"{k} = {v:g}" for k, v in zip(ks, k_given, strict=True)
+                      if v < float(slenderness.k_restraint(v)) - 1e-12]
+            if raised:
+                notes[ax] += f" ({', '.join(raised)} raised to the recommended minimum 0.1, 5.8.3.2(3))"
         elif fac_key in data:
             if height is None:
                 raise InputError(path, "height", None, f"needed with {fac_key} (clear height, mm)")
@@ -154,6 +160,34 @@ def parse_check_spec(data: dict, path: str):
     phi_ef = None
     if "phi_ef" in data:
         phi_ef = number(path, "phi_ef", data["phi_ef"], positive=True, maximum=10)
+    optional = {}
+    for key, scale, upper, unit in (("M0Eqp_ratio", 1.0, 1.5, ""), ("char_ratio", 1.0, 1.5, ""),
+                                    ("As_below", 1.0, 1e6, "mm2"), ("s_link", 1.0, 1000.0, "mm"),
+                                    ("s_link_zone", 1.0, 1000.0, "mm"), ("VEd", 1e3, 1e5, "kN")):
+        if key in data:
+            zero_ok = key in ("M0Eqp_ratio", "char_ratio", "As_below", "VEd")
+            optional[key] = number(path, key, data[key], positive=True, allow_zero=zero_ok, maximum=upper,
+                                   unit=unit) * scale
+    creep_keys = {"relative_humidity": "RH_percent", "age_at_loading": "t0_days", "cement_class": "cement"}
+    creep_args = {}
+    for key, field in creep_keys.items():
+        if key in data:
+            if key == "cement_class":
+                creep_args[field] = _enum(path, key, data[key], CementClass)
+            elif key == "relative_humidity":
+                creep_args[field] = number(path, key, data[key], minimum=20.0, maximum=100.0, unit="%")
+            else:
+                creep_args[field] = number(path, key, data[key], positive=True, allow_zero=False, maximum=3650.0,
+                                           unit="days")
+    curvature_c = None
+    if "curvature_c" in data:
+        curvature_c = number(path, "curvature_c", data["curvature_c"], minimum=8.0, maximum=12.0)
+    exposure = None
+    if "exposure" in data:
+        try:
+            exposure = parse_exposure(data["exposure"])
+        except ValueError as exc:
+            raise InputError(path, "exposure", data["exposure"], str(exc)) from None
     fire = None
     if "fire" in data and data["fire"] != "none":
         text = str(data["fire"]).upper().removeprefix("R")
@@ -168,7 +202,7 @@ def parse_check_spec(data: dict, path: str):
                                MinEccentricity),
         biaxial=_enum(path, "biaxial", data.get("biaxial", "5.39"), BiaxialMethod),
         exact_biaxial=True,
-        exposure=_enum(path, "exposure", data["exposure"], ExposureClass) if "exposure" in data else None,
+        exposure=exposure, creep=CreepSettings(**creep_args), curvature_c=curvature_c,
         fire=fire,
         mu_fi=number(path, "mu_fi", data.get("mu_fi", 0.7), positive=True, maximum=1.0),
         aggregate=spec.aggregate_mm,
@@ -179,7 +213,10 @@ def parse_check_spec(data: dict, path: str):
         l0_fi = _length(path, data, "l0_fi", "l0")
     actions = ColumnActions(
         NEd=spec.NEd_kN * 1e3, My_top=my[0] * 1e6, My_bot=my[1] * 1e6, Mz_top=mz[0] * 1e6, Mz_bot=mz[1] * 1e6,
-        l0y=l0y, l0z=l0z, l_clear=height, l0_fi=l0_fi, phi_ef=phi_ef,
+        l0y=l0y, l0z=l0z, l_clear=height, l0_fi=l0_fi, phi_ef=phi_ef, braced=data.get("braced", True),
+        M0Eqp_ratio=optional.get("M0Eqp_ratio"), char_ratio=optional.get("char_ratio"),
+        As_below=optional.get("As_below"), s_link=optional.get("s_link"), s_link_zone=optional.get("s_link_zone"),
+        V_Ed=optional.get("VEd"),
     )
     return spec, actions, settings, notes
 

@@ -155,6 +155,8 @@ def build_sheet(
     sh.add("Summary", _summary(result))
     sh.add("Input", _input(design, actions, v, params))
     sh.add("Materials", _materials(design, v))
+    if "phi_ef" in v:
+        sh.add("Creep", _creep(v))
     for ax in ("y", "z"):
         label = "about y (lever arm along h)" if ax == "y" else "about z (lever arm along b)"
         sh.add(f"Bending {label}", _axis(design, v, ax, (l0_notes or {}).get(ax, "given")))
@@ -256,6 +258,40 @@ def _materials(design: DesignSection, v: dict) -> list[Step]:
         Step("resistance to pure compression", "NRd (uniform strain eps_c2)", "", _kn(_g(v, "NRd")),
              "EN 1992-1-1, 6.1(5)"),
     ]
+
+
+def _creep(v: dict) -> list[Step]:
+    """Effective creep ratio: where it came from (EN 1992-1-1, 5.8.4, Annex B, 3.1.4(4))."""
+    phi_ef = _g(v, "phi_ef")
+    source = str(v.get("phi_ef_source", ""))
+    steps = []
+    if source != "given":
+        steps += [
+            Step("notional size", "h0 = 2 Ac / u (all faces drying)", "", f"{_g(v, 'h0'):.0f} mm",
+                 "EN 1992-1-1, 3.1.4(5)"),
+            Step("creep coefficient (linear)", "phi(inf, t0) = phi_RH beta(fcm) beta(t0)",
+                 str(v.get("creep_conditions", "")),
+                 _f(_g(v, "phi_inf_linear"), 2), "EN 1992-1-1, Annex B, Eqs. (B.1)-(B.5), (B.9)"),
+            Step("quasi-permanent stress", "sigma_c = (M0Eqp/M0Ed) x design actions on the uncracked section",
+                 f"k_sigma = sigma_c / fck = {_g(v, 'k_sigma_qp'):.2f}", f"{_g(v, 'sigma_c_qp'):.1f} MPa",
+                 "EN 1992-1-1, 3.1.4(4)",
+                 note=("above 0.45 fck: non-linear creep, phi raised by exp(1.5 (k_sigma - 0.45))"
+                       if bool(v.get("creep_nonlinear", False)) else "at most 0.45 fck: linear creep")),
+            Step("creep coefficient", "phi(inf, t0), Eq. (3.7) where non-linear", "", _f(_g(v, "phi_inf"), 2),
+                 "EN 1992-1-1, 3.1.4(4), Eq. (3.7)"),
+            Step("effective creep ratio", "phi_ef = phi(inf, t0) M0Eqp / M0Ed",
+                 f"{_g(v, 'phi_inf'):.2f} x {_g(v, 'M0Eqp_ratio'):.3f}", _f(phi_ef, 2), "EN 1992-1-1, Eq. (5.19)",
+                 note=source),
+        ]
+    else:
+        allowed = bool(v.get("creep_ignorable_5_8_4_4", False))
+        note = "given in the specification"
+        if phi_ef == 0:
+            note += ("; 5.8.4(4) allows phi_ef = 0 here (phi(inf, t0) <= 2, lambda <= 75, M0Ed/NEd >= h)" if allowed
+                     else "; the conditions of 5.8.4(4) for ignoring creep (phi(inf, t0) <= 2, lambda <= 75, "
+                          "M0Ed/NEd >= h) are NOT all met here")
+        steps.append(Step("effective creep ratio", "phi_ef", "", _f(phi_ef, 2), "EN 1992-1-1, 5.8.4", note=note))
+    return steps
 
 
 def _abc(v: dict, ax: str, n: float, omega: float) -> list[Step]:
@@ -365,7 +401,8 @@ def _axis(design: DesignSection, v: dict, ax: str, l0_note: str) -> list[Step]:
                  f"{Kr:.3f} x {Kphi:.3f} x {eps_yd:.5f} / (0.45 x {d:,.0f} mm)", f"{inv_r:.3e} 1/mm",
                  "EN 1992-1-1, Eqs. (5.34), (5.35)"),
             Step("second-order eccentricity", "e2 = (1/r) l0^2 / c",
-                 f"{inv_r:.3e} x {l0:,.0f}^2 / {cc:.2f}", f"{e2:.1f} mm", "EN 1992-1-1, Eq. (5.33)"),
+                 f"{inv_r:.3e} x {l0:,.0f}^2 / {cc:.2f}", f"{e2:.1f} mm", "EN 1992-1-1, Eq. (5.33), 5.8.8.2(4)",
+                 note=_c_note(cc, M01, M02)),
             Step("second-order moment", "M2 = NEd e2", f"{NEd / 1e3:,.1f} kN x {e2:.1f} mm", _knm(M2),
                  "EN 1992-1-1, 5.8.8.2(3)"),
         ]
@@ -384,6 +421,17 @@ def _axis(design: DesignSection, v: dict, ax: str, l0_note: str) -> list[Step]:
     steps.append(Step("moment resistance at NEd", f"MRd{ax} (strain compatibility)", "", _knm(_g(v, f"MRd{ax}")),
                       "EN 1992-1-1, 6.1"))
     return steps
+
+
+def _c_note(c: float, M01: float, M02: float) -> str:
+    """Why c has its value (EN 1992-1-1, 5.8.8.2(4))."""
+    rm = M01 / M02 if M02 > 0 else 1.0
+    if c <= 8.0 + 1e-9:
+        return f"c = 8: the first-order moment is constant along the member (M01/M02 = {rm:.2f}), 5.8.8.2(4)"
+    if c >= 10.0 - 1e-9:
+        return f"c = 10 (about pi^2): the first-order moment is zero at one end or changes sign (M01/M02 = {rm:.2f})"
+    return (f"c = 10 - 2 M01/M02 = {c:.2f}: between 10 (moment zero at one end) and 8 (constant moment), "
+            f"M01/M02 = {rm:.2f} with the imperfection")
 
 
 def _biaxial(design: DesignSection, v: dict) -> list[Step]:

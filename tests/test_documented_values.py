@@ -182,7 +182,7 @@ SPEC_RECIPES: dict[str, tuple[str, ...]] = {
     "ductility": ("section", "check"), "branch": ("section", "check"), "law": ("section", "check"),
     "national": ("section", "check"), "grade": ("section", "check"),
     "exposure": ("check",), "fire": ("check",), "imperfection": ("check",), "min_eccentricity": ("check",),
-    "biaxial": ("check",),
+    "biaxial": ("check",), "cement_class": ("check",),
 }
 
 
