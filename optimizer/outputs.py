@@ -21,6 +21,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
+from design.member import extra_ties
 from design.sections import CircSection
 from optimizer import CAUTION, __version__
 from optimizer.errors import InputError
@@ -106,7 +107,10 @@ def types_frame(r: RunResult) -> pd.DataFrame:
             "mark": u.mark, "shape": ct.shape.value, "b_mm": s.b if not circ else np.nan,
             "h_mm": s.h if not circ else np.nan, "diameter_mm": s.diameter if circ else np.nan,
             "bars": s.bars.notation, "As_mm2": round(s.As, 0), "rho_percent": round(100 * s.As / s.Ac, 2),
-            "links": _links_text(r, u.type_index), "cover_mm": s.cover, "grade": ct.design.concrete.name,
+            "links": _links_text(r, u.type_index),
+            # 9.5.3(6): extra ties so that every bar is within 150 mm of a restrained bar (their steel is
+            # counted with the links)
+            "cross_ties": int(extra_ties(s)), "cover_mm": s.cover, "grade": ct.design.concrete.name,
             "cells": len(u.cells), "stacks": " ".join(stacks),
             "levels": f"{sc.levels[levels[0]].name} to {sc.levels[levels[-1]].name}",
             "catalogue_type": ct.mark,

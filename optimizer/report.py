@@ -229,16 +229,14 @@ def _utilisation_text(r: RunResult, i: int) -> str:
 
 
 def cell_actions(r: RunResult, i: int) -> ColumnActions:
-    """The actions of cell ``i`` in the axes of its chosen section (turned stacks swap y and z)."""
-    ct = r.feasibility.cells
-    f = float
-    if int(r.chosen_orient[i]) == 0:
-        return ColumnActions(NEd=f(ct.NEd[i]), My_top=f(ct.My_top[i]), My_bot=f(ct.My_bot[i]),
-                             Mz_top=f(ct.Mz_top[i]), Mz_bot=f(ct.Mz_bot[i]), l0y=f(ct.l0y[i]), l0z=f(ct.l0z[i]),
-                             l_clear=f(ct.l_clear[i]), l0_fi=f(ct.l0_fi[i]))
-    return ColumnActions(NEd=f(ct.NEd[i]), My_top=f(ct.Mz_top[i]), My_bot=f(ct.Mz_bot[i]),
-                         Mz_top=f(ct.My_top[i]), Mz_bot=f(ct.My_bot[i]), l0y=f(ct.l0z[i]), l0z=f(ct.l0y[i]),
-                         l_clear=f(ct.l_clear[i]), l0_fi=f(ct.l0_fi[i]))
+    """The actions of cell ``i`` in the axes of its chosen section (turned stacks swap y and z).
+
+    The same ones the run's exact re-check used (``CellTable.actions``), scalar for the sheet.
+    """
+    acts = r.feasibility.cells.actions(np.array([i]), int(r.chosen_orient[i]))
+    scalar = {f.name: (float(np.asarray(v).ravel()[0]) if isinstance(v, np.ndarray) else v)
+              for f in dataclasses.fields(acts) for v in [getattr(acts, f.name)]}
+    return ColumnActions(**scalar)
 
 
 def cell_sheet(r: RunResult, i: int) -> Sheet:

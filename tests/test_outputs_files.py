@@ -280,3 +280,49 @@ def test_pareto_picture_draws_steel_and_cost(run, tmp_path):
         import matplotlib.pyplot as plt
 
         plt.close(fig)
+
+
+def test_types_csv_reports_cross_ties_and_the_link_steel_counts_them(csv, run):
+    """EN 1992-1-1, 9.5.3(6): every bar in a compression zone within 150 mm of a restrained bar.
+    types.csv gives the extra ties per type, recounted here bar by bar from the bar coordinates,
+    and the link steel of a cell grows with them (counted in links_kg)."""
+    from design import detailing
+
+    for rec in csv["types"].itertuples():
+        t = next(u.type_index for u in run.types_used if u.mark == rec.mark)
+        s = run.catalogue.types[t].design.section
+        if not hasattr(s, "bars") or s.__class__.__name__ != "RectSection":
+            assert rec.cross_ties == 0
+            continue
+        y, z, _ = s.bar_coords()
+        need = 0
+        for along, across in ((y, z), (z, y)):
+            for side in (across.max(), across.min()):
+                on = np.isclose(across, side, atol=20.0)
+                need += detailing.extra_ties_needed(np.sort(along[on]))
+        assert rec.cross_ties == need
+
+
+def test_cross_ties_add_their_steel_to_the_links(run):
+    """Each extra tie of 9.5.3(6) adds, per link set, one tie across the section (min(b, h) plus two
+    135-degree hooks of 10 diameters, common practice) to the link steel of the cell."""
+    import math
+
+    from optimizer.catalogue import type_arrays
+    from optimizer.feasibility import quantities
+
+    fe, cat = run.feasibility, run.catalogue
+    ta = type_arrays(cat)
+    with_ties = np.nonzero(ta["extra_ties"] > 0)[0]
+    if with_ties.size == 0:
+        pytest.skip("no type of this catalogue needs cross-ties")
+    t = int(with_ties[0])
+    cell = np.array([0])
+    base = quantities(fe.cells, ta, cell, np.array([t]), run.scenario)["link_kg"][0]
+    none = dict(ta, extra_ties=np.zeros_like(ta["extra_ties"]))
+    bare = quantities(fe.cells, none, cell, np.array([t]), run.scenario)["link_kg"][0]
+    link = ta["link"][t]
+    tie_kg = (min(ta["b"][t], ta["h"][t]) + 20 * link) * math.pi * link**2 / 4 * 1e-9 * 7850.0
+    sets = (base - bare) / (ta["extra_ties"][t] * tie_kg)
+    assert base > bare
+    assert sets == pytest.approx(round(sets), rel=1e-9) and sets >= 2  # a whole number of link sets
