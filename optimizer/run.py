@@ -194,6 +194,7 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
         more = f" and {unverified.size - 8} more" if unverified.size > 8 else ""
         warnings.append(f"fire resistance not verified by EN 1992-1-2 5.3.2 method A in {unverified.size} cell(s) "
                         f"(outside its conditions of use; verify by another method): {names}{more}")
+    warnings += crank_warnings(problem, fe, cand)
     if schedule.status not in ("optimal", "within gap"):
         warnings.append(f"solver stopped with status '{schedule.status}': proven gap {100 * schedule.gap:.2f} % "
                         f"(requested {100 * opts.gap_rel:g} %)")
@@ -350,6 +351,39 @@ def recheck(scenario: Scenario, cat: Catalogue, fe: Feasibility, chosen_type: np
         res, _ = check_pairs(data, cc, chosen_type[cc], ct, orient, st, scenario.params, fast=False)
         parts.append((cc, res))
     return _merge(parts, n)
+
+
+CRANK_SLOPE = 12.0  # bars cranked at 1 in 12 or flatter need no check of the lateral force (9.5.3(5))
+
+
+def crank_warnings(problem, fe: Feasibility, cand: np.ndarray) -> list[str]:
+    """Size steps whose cranked bars cannot reach 1 in 12 within the clear height of the storey below.
+
+    EN 1992-1-1, 9.5.3(5): where the bars change direction at a change of column size, the links must
+    take the lateral force, which may be ignored at a slope of 1 in 12 or flatter. A step of d per face
+    (plus half the change of bar size) then needs a crank of 12 d below the floor; where that does not
+    fit in the clear height of the storey below, separate starter bars (step_rule = "starters") or a
+    smaller step are needed.
+    """
+    from optimizer.heuristic import step_per_face
+
+    t = problem.types
+    typ = fe.cand_type[np.asarray(cand)]
+    out = []
+    for lo, up in enumerate(problem.above):
+        if up < 0:
+            continue
+        a, b = int(typ[lo]), int(typ[up])
+        step = float(step_per_face(t.b[a], t.h[a], t.b[b], t.h[b]))
+        offset = step + abs(float(t.corner_dia[a] - t.corner_dia[b])) / 2
+        need = CRANK_SLOPE * offset
+        if offset > 0 and need > fe.cells.l_clear[lo] and step <= problem.rules.max_step_mm:
+            stack, level = fe.cells.cells[lo]
+            out.append(f"{stack} above {level}: a step of {offset:g} mm per face needs bars cranked over "
+                       f"{need:,.0f} mm at 1 in 12 (EN 1992-1-1 9.5.3(5)), more than the clear height "
+                       f"{fe.cells.l_clear[lo]:,.0f} mm below; use separate starter bars or links for the "
+                       "lateral force")
+    return out
 
 
 def _merge(parts: list[tuple[np.ndarray, MemberChecks]], n: int) -> MemberChecks:
