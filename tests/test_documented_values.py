@@ -31,6 +31,7 @@ from collections.abc import Callable
 from pathlib import Path
 
 import pytest
+from test_robustness_fuzz import dump_toml
 
 from optimizer.cli import main
 
@@ -185,33 +186,6 @@ SPEC_RECIPES: dict[str, tuple[str, ...]] = {
     "biaxial": ("check",), "cement_class": ("check",),
 }
 
-
-# --------------------------------------------------------------------------- a small TOML writer
-
-_BARE = re.compile(r"^[A-Za-z0-9_-]+$")
-
-
-def _toml(v: object) -> str:
-    if isinstance(v, bool):
-        return "true" if v else "false"
-    if isinstance(v, (int, float)):
-        return repr(v)
-    if isinstance(v, str):
-        return json.dumps(v, ensure_ascii=False)
-    if isinstance(v, list):
-        return "[" + ", ".join(_toml(x) for x in v) + "]"
-    if isinstance(v, dict):
-        return "{" + ", ".join(f"{_key(k)} = {_toml(x)}" for k, x in v.items()) + "}"
-    raise TypeError(type(v))
-
-
-def _key(k: str) -> str:
-    return k if _BARE.match(k) else json.dumps(k)
-
-
-def dump_toml(data: dict) -> str:
-    """A TOML document with every top-level key as ``key = inline value`` (arrays of tables inline)."""
-    return "".join(f"{_key(k)} = {_toml(v)}\n" for k, v in data.items())
 
 
 # --------------------------------------------------------------------------- fixtures
