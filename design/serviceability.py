@@ -244,13 +244,19 @@ def sigma_c_uncracked(
     _require(fct >= 0, lambda: f"fct_eff must not be negative, got {fct} MPa")
     s = section
     shape = np.broadcast_shapes(s.A.shape, N.shape, My.shape, Mz.shape, fct.shape)
-    K = np.empty((*shape, 3, 3))
-    K[..., 0, 0], K[..., 0, 1], K[..., 0, 2] = np.broadcast_to(s.A, shape), s.Sy, s.Sz
-    K[..., 1, 0], K[..., 1, 1], K[..., 1, 2] = np.broadcast_to(s.Sy, shape), s.Iyy, s.Iyz
-    K[..., 2, 0], K[..., 2, 1], K[..., 2, 2] = np.broadcast_to(s.Sz, shape), s.Iyz, s.Izz
-    rhs = np.stack(np.broadcast_arrays(N, Mz, My), axis=-1)
-    sol = np.linalg.solve(K, rhs[..., None])[..., 0]
-    s0, gy, gz = sol[..., 0], sol[..., 1], sol[..., 2]
+    A, Sy, Sz, Iyy, Izz, Iyz = (np.broadcast_to(x, shape) for x in (s.A, s.Sy, s.Sz, s.Iyy, s.Izz, s.Iyz))
+    Nb, Myb, Mzb = (np.broadcast_to(x, shape) for x in (N, My, Mz))
+    # doubly symmetric layouts (every section of a catalogue): the closed form, no solve
+    s0, gy, gz = (np.array(x, dtype=float) for x in (Nb / A, Mzb / Iyy, Myb / Izz))
+    general = (Sy != 0) | (Sz != 0) | (Iyz != 0)
+    if np.any(general):
+        K = np.empty((int(general.sum()), 3, 3))
+        K[:, 0, 0], K[:, 0, 1], K[:, 0, 2] = A[general], Sy[general], Sz[general]
+        K[:, 1, 0], K[:, 1, 1], K[:, 1, 2] = Sy[general], Iyy[general], Iyz[general]
+        K[:, 2, 0], K[:, 2, 1], K[:, 2, 2] = Sz[general], Iyz[general], Izz[general]
+        rhs = np.stack([Nb[general], Mzb[general], Myb[general]], axis=-1)
+        sol = np.linalg.solve(K, rhs[..., None])[..., 0]
+        s0[general], gy[general], gz[general] = sol[:, 0], sol[:, 1], sol[:, 2]
     circ = np.broadcast_to(s.circular, shape)
     half_b, half_h = np.broadcast_to(s.b, shape) / 2.0, np.broadcast_to(s.h, shape) / 2.0
     rect_span = np.abs(gy) * half_b + np.abs(gz) * half_h  # corners
