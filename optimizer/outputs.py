@@ -54,7 +54,7 @@ def _links_text(r: RunResult, t: int) -> str:
 
 
 def cells_frame(r: RunResult) -> pd.DataFrame:
-    """One row per cell: actions, design moments, slenderness, chosen type, check outcome, steel.
+    """One row per cell: actions, design moments, slenderness, n = NEd/(Ac fcd), phi_ef, type, outcome, steel.
 
     ``utilisation``/``governing`` are over every check (detailing, cover and fire included);
     ``utilisation_resistance``/``governing_resistance`` are the strength of the column alone
@@ -81,6 +81,7 @@ def cells_frame(r: RunResult) -> pd.DataFrame:
             "MRdy_kNm": round(float(v["MRdy"][i]) / 1e6, 1), "MRdz_kNm": round(float(v["MRdz"][i]) / 1e6, 1),
             "l0y_mm": round(float(v["l0y"][i])), "l0z_mm": round(float(v["l0z"][i])),
             "lambda_y": round(float(v["lambda_y"][i]), 1), "lambda_z": round(float(v["lambda_z"][i]), 1),
+            "n": round(float(v["n"][i]), 3), "phi_ef": round(float(v["phi_ef"][i]), 2),
             "type": r.mark_of(i), "section": ct.section_key, "bars": ct.design.section.bars.notation,
             "links": _links_text(r, t), "grade": ct.design.concrete.name,
             "orientation": "turned 90 deg" if r.chosen_orient[i] else "as given",
