@@ -16,10 +16,10 @@ import numpy as np
 
 from design.member import ColumnActions, SectionData, check_column
 from design.resistance import SectionBatch
-from optimizer.catalogue import CatalogueSpec, build_catalogue
-from optimizer.feasibility import cell_table, check_pairs, check_settings_for, feasibility
-from optimizer.generate import generate_tower
-from optimizer.takedown import scenario_actions
+from optimizer.building.generate import generate_tower
+from optimizer.building.takedown import scenario_actions
+from optimizer.candidates.catalogue import CatalogueSpec, build_catalogue
+from optimizer.candidates.feasibility import cell_table, check_pairs, check_settings_for, feasibility
 
 TARGET_S = 20.0
 

@@ -3,9 +3,9 @@
 Both buildings go through the whole pipeline (takedown, catalogue, feasibility
 matrix) to a scheduling problem, then:
 
-* the path formulation (column generation, :mod:`optimizer.paths`) with the
+* the path formulation (column generation, :mod:`optimizer.schedule.paths`) with the
   master problem solved by HiGHS and by CBC;
-* the compact formulation (one binary per cell and type, :mod:`optimizer.ip`)
+* the compact formulation (one binary per cell and type, :mod:`optimizer.schedule.ip`)
   with HiGHS, stopped at the same time limit (and with CBC on the demo only:
   on the tower its root relaxation alone outlasts any sensible limit);
 * the same demo tower with a cap of 8 types instead of the price;
@@ -33,17 +33,18 @@ from dataclasses import replace
 
 import numpy as np
 
-from optimizer.catalogue import CatalogueSpec, build_catalogue
-from optimizer.feasibility import feasibility, to_problem
-from optimizer.generate import generate_tower
-from optimizer.heuristic import baseline, cellwise_lower_bound, figures
-from optimizer.ip import lower_bound_premium
-from optimizer.problem import ScheduleProblem
-from optimizer.run import optimise
-from optimizer.scenario import load_scenario
-from optimizer.schedule_check import check_schedule
-from optimizer.settings import read_run_settings
-from optimizer.takedown import scenario_actions
+from optimizer.building.generate import generate_tower
+from optimizer.building.scenario import load_scenario
+from optimizer.building.takedown import scenario_actions
+from optimizer.candidates.catalogue import CatalogueSpec, build_catalogue
+from optimizer.candidates.feasibility import feasibility
+from optimizer.pipeline.assemble import to_problem
+from optimizer.pipeline.run import optimise
+from optimizer.pipeline.settings import read_run_settings
+from optimizer.schedule.check import check_schedule
+from optimizer.schedule.heuristic import baseline, cellwise_lower_bound, figures
+from optimizer.schedule.ip import lower_bound_premium
+from optimizer.schedule.problem import ScheduleProblem
 
 TARGETS = {"demo tower": 60.0, "demo tower, cap 8 types": 60.0, "tower 50 x 60": 180.0}
 

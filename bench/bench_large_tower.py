@@ -13,9 +13,9 @@ import resource
 import sys
 import time
 
-from optimizer.generate import generate_tower
-from optimizer.run import run_scenario
-from optimizer.variants import with_grade, with_reserved
+from optimizer.building.generate import generate_tower
+from optimizer.pipeline.run import run_scenario
+from optimizer.studies.variants import with_grade, with_reserved
 
 TIME_LIMIT_S = 240.0
 

@@ -5,8 +5,7 @@ from pathlib import Path
 import networkx as nx
 import pytest
 
-from optimizer.errors import InputError
-from optimizer.graph import (
+from optimizer.building.graph import (
     build_stack_graph,
     carried_cells,
     cell_above,
@@ -15,7 +14,8 @@ from optimizer.graph import (
     load_order,
     supports_of,
 )
-from optimizer.scenario import CellId, load_scenario
+from optimizer.building.scenario import CellId, load_scenario
+from optimizer.errors import InputError
 
 ROOT = Path(__file__).resolve().parent.parent
 

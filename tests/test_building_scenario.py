@@ -4,9 +4,9 @@ import dataclasses
 
 import pytest
 
+from optimizer.building.loads import Category, Combination, ImposedReduction
+from optimizer.building.scenario import CellId, Orientation, SupportKind, load_scenario, load_scenario_text
 from optimizer.errors import InputError
-from optimizer.loads import Category, Combination, ImposedReduction
-from optimizer.scenario import CellId, Orientation, SupportKind, load_scenario, load_scenario_text
 
 BASE = """
 [project]
@@ -305,7 +305,7 @@ def test_parameter_overrides():
 
 
 def test_external_support_and_k_values_reach_the_takedown():
-    from optimizer.takedown import takedown
+    from optimizer.building.takedown import takedown
 
     text = BASE.replace("stands_on = { S1 = 0.5, S2 = 0.5 }", 'stands_on = "external"')
     text = text.replace("[takedown]", '[[settings]]\nstacks = ["S3"]\n'

@@ -5,10 +5,10 @@ from pathlib import Path
 import pandas as pd
 import pytest
 
+from optimizer.building.generate import TowerSpec, generate_tower, generate_tower_toml
+from optimizer.building.scenario import SupportKind, load_scenario
+from optimizer.building.takedown import ACTION_COLUMNS, scenario_actions, takedown
 from optimizer.cli import main
-from optimizer.generate import TowerSpec, generate_tower, generate_tower_toml
-from optimizer.scenario import SupportKind, load_scenario
-from optimizer.takedown import ACTION_COLUMNS, scenario_actions, takedown
 
 ROOT = Path(__file__).resolve().parent.parent
 

@@ -5,7 +5,7 @@ moments in kNm. A value in the wrong unit (a clear height of 6.5 for 6500 mm,
 NEd in N) used to give a meaningless pass; now it is one line naming the file,
 the key, the value and what is expected (exit status 2), and an unusual but
 possible value is a warning (stderr, the sheet, ``warnings`` in ``--json``).
-The thresholds live in ``optimizer.plausibility.LIMITS``.
+The thresholds live in ``optimizer.building.plausibility.LIMITS``.
 
 Closed forms used below: the squash load Ac fcd + As fyd is the NRd of
 EN 1992-1-1 5.8.9(4); fcd = alpha_cc fck / gamma_c (Eq. (3.15)); fyd = fyk /
@@ -22,9 +22,9 @@ import numpy as np
 import pytest
 
 from design.resistance import SectionBatch
+from optimizer.building.plausibility import LIMITS, spec_length_problem, spec_moment_problem, spec_side_problem
 from optimizer.cli import main
-from optimizer.plausibility import LIMITS, spec_length_problem, spec_moment_problem, spec_side_problem
-from optimizer.spec import load_spec_file, section_capacity, section_spec
+from optimizer.cli.spec import load_spec_file, section_capacity, section_spec
 
 ROOT = Path(__file__).resolve().parents[1]
 EXAMPLE = ROOT / "examples" / "column_slender_biaxial.toml"

@@ -142,9 +142,9 @@ def test_sheet_A_default_is_a_sentence():
     import dataclasses
 
     from design.member import check_column
-    from optimizer.cli_check import parse_check_spec
-    from optimizer.sheet import build_sheet, render_text
-    from optimizer.spec import load_spec_file
+    from optimizer.cli.check import parse_check_spec
+    from optimizer.cli.spec import load_spec_file
+    from optimizer.reporting.sheet import build_sheet, render_text
 
     spec, actions, settings, notes = parse_check_spec(load_spec_file(EXAMPLE), str(EXAMPLE))
     res = check_column(spec.design, actions, settings, spec.params)

@@ -7,11 +7,11 @@ import pandas as pd
 import pytest
 
 from optimizer import CAUTION
+from optimizer.building.scenario import load_scenario
 from optimizer.cli import main
-from optimizer.compare import compare_sentences
-from optimizer.run import run_scenario
-from optimizer.scenario import load_scenario
-from optimizer.variants import with_grade
+from optimizer.pipeline.run import run_scenario
+from optimizer.studies.compare import compare_sentences
+from optimizer.studies.variants import with_grade
 
 SMALL = Path(__file__).resolve().parent.parent / "scenarios" / "small_building.toml"
 # A 100 mm size module halves the catalogue: the same building, faster runs.

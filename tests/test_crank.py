@@ -11,8 +11,8 @@ from types import SimpleNamespace
 
 import numpy as np
 
-from optimizer.problem import Rules, TypeTable
-from optimizer.run import crank_warnings
+from optimizer.pipeline.run import crank_warnings
+from optimizer.schedule.problem import Rules, TypeTable
 
 
 def _types(sizes):

@@ -14,11 +14,11 @@ import numpy as np
 import pytest
 
 from design.creep import CementClass, CreepSettings
+from optimizer.building.loads import PSI_FACTORS, Category
+from optimizer.building.scenario import load_scenario, load_scenario_text
+from optimizer.building.takedown import m0eqp_ratio, read_actions_csv, scenario_actions, takedown, write_actions_csv
+from optimizer.candidates.feasibility import cell_table, check_settings_for
 from optimizer.errors import InputError
-from optimizer.feasibility import cell_table, check_settings_for
-from optimizer.loads import PSI_FACTORS, Category
-from optimizer.scenario import load_scenario, load_scenario_text
-from optimizer.takedown import m0eqp_ratio, read_actions_csv, scenario_actions, takedown, write_actions_csv
 
 ROOT = Path(__file__).resolve().parent.parent
 SMALL = ROOT / "scenarios" / "small_building.toml"

@@ -1,4 +1,4 @@
-"""Catalogue generation and the building-wide feasibility matrix (optimizer/catalogue.py, feasibility.py).
+"""Catalogue generation and the building-wide feasibility matrix (optimizer/candidates/catalogue.py, feasibility.py).
 
 Sources: EN 1992-1-1 8.2(2) (clear spacing), 9.5.2(1)-(3) (bar size, steel ratio), 9.5.3(1) (link size),
 8.7.3 (lap length); closed forms for bar masses (area x length x 7850 kg/m3, nominal mass of steel).
@@ -13,13 +13,14 @@ import pytest
 
 from design import laps
 from design.member import check_column
-from optimizer.catalogue import Shape, build_catalogue, type_arrays
+from optimizer.building.scenario import load_scenario, load_scenario_text
+from optimizer.building.takedown import scenario_actions
+from optimizer.candidates.catalogue import Shape, build_catalogue, type_arrays
+from optimizer.candidates.feasibility import cell_table, check_pairs, check_settings_for, feasibility
 from optimizer.cli import main
 from optimizer.errors import InputError
-from optimizer.feasibility import cell_table, check_pairs, check_settings_for, feasibility, to_problem
-from optimizer.scenario import load_scenario, load_scenario_text
-from optimizer.settings import read_run_settings
-from optimizer.takedown import scenario_actions
+from optimizer.pipeline.assemble import to_problem
+from optimizer.pipeline.settings import read_run_settings
 
 SMALL = Path(__file__).resolve().parent.parent / "scenarios" / "small_building.toml"
 

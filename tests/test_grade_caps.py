@@ -1,6 +1,6 @@
 """Grade choice per cell with caps: grades used in the building and grade changes per stack.
 
-Checked by the independent rule checker (optimizer.schedule_check) and by counting in the schedule.
+Checked by the independent rule checker (optimizer.schedule.check) and by counting in the schedule.
 """
 
 from pathlib import Path
@@ -8,14 +8,15 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from optimizer.catalogue import build_catalogue
-from optimizer.feasibility import feasibility, to_problem
-from optimizer.problem import Rules
-from optimizer.run import optimise
-from optimizer.scenario import load_scenario_text
-from optimizer.schedule_check import check_schedule
-from optimizer.settings import read_run_settings
-from optimizer.takedown import scenario_actions
+from optimizer.building.scenario import load_scenario_text
+from optimizer.building.takedown import scenario_actions
+from optimizer.candidates.catalogue import build_catalogue
+from optimizer.candidates.feasibility import feasibility
+from optimizer.pipeline.assemble import to_problem
+from optimizer.pipeline.run import optimise
+from optimizer.pipeline.settings import read_run_settings
+from optimizer.schedule.check import check_schedule
+from optimizer.schedule.problem import Rules
 
 SMALL = Path(__file__).resolve().parent.parent / "scenarios" / "small_building.toml"
 EXTRA = ('\n[catalogue]\nsizes_mm = {min = 300, max = 900, step = 100}\nshapes = ["square"]\n'

@@ -7,8 +7,9 @@ from dataclasses import replace
 import numpy as np
 import pytest
 
-from optimizer.diagnose import diagnose
-from optimizer.heuristic import (
+from optimizer.schedule.check import check_schedule
+from optimizer.schedule.diagnose import diagnose
+from optimizer.schedule.heuristic import (
     baseline,
     cellwise_lower_bound,
     figures,
@@ -17,10 +18,9 @@ from optimizer.heuristic import (
     stack_dp,
     stack_shortest_path,
 )
-from optimizer.ip import build_model, lower_bound_premium, pareto, reduce_problem, solve
-from optimizer.problem import Objective, Rules, ScheduleProblem, StepRule, TypeTable
-from optimizer.schedule_check import check_schedule
-from optimizer.synthetic import SyntheticSpec, synthetic_problem, tower
+from optimizer.schedule.ip import build_model, lower_bound_premium, pareto, reduce_problem, solve
+from optimizer.schedule.problem import Objective, Rules, ScheduleProblem, StepRule, TypeTable
+from optimizer.schedule.synthetic import SyntheticSpec, synthetic_problem, tower
 
 
 def _types(rows: list[tuple[bool, float, float, int, int, float, float]]) -> TypeTable:

@@ -15,11 +15,11 @@ from dataclasses import replace
 import numpy as np
 import pytest
 
-from optimizer import paths
-from optimizer.ip import solve
-from optimizer.problem import Objective, Rules, ScheduleProblem, StepRule
-from optimizer.schedule_check import check_schedule
-from optimizer.synthetic import SyntheticSpec, synthetic_problem
+from optimizer.schedule import paths
+from optimizer.schedule.check import check_schedule
+from optimizer.schedule.ip import solve
+from optimizer.schedule.problem import Objective, Rules, ScheduleProblem, StepRule
+from optimizer.schedule.synthetic import SyntheticSpec, synthetic_problem
 
 
 def _steel_mm2(p: ScheduleProblem, t: int) -> float:

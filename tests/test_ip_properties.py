@@ -10,12 +10,12 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from test_ip_bruteforce import brute_force
 
-from optimizer.diagnose import diagnose
-from optimizer.heuristic import baseline, cellwise_lower_bound, figures, rationalise, stack_optimum
-from optimizer.ip import solve
-from optimizer.problem import Objective, Rules, StepRule
-from optimizer.schedule_check import check_schedule
-from optimizer.synthetic import SyntheticSpec, synthetic_problem
+from optimizer.schedule.check import check_schedule
+from optimizer.schedule.diagnose import diagnose
+from optimizer.schedule.heuristic import baseline, cellwise_lower_bound, figures, rationalise, stack_optimum
+from optimizer.schedule.ip import solve
+from optimizer.schedule.problem import Objective, Rules, StepRule
+from optimizer.schedule.synthetic import SyntheticSpec, synthetic_problem
 
 rules_st = st.builds(
     Rules,

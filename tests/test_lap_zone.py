@@ -19,12 +19,12 @@ import numpy as np
 import pytest
 
 from design.params import NationalParameters
-from optimizer.diagnose import diagnose
-from optimizer.heuristic import stack_optimum, stack_shortest_path, transition
-from optimizer.ip import formulate, solve
-from optimizer.problem import Objective, Rules, Schedule, ScheduleProblem, StepRule, TypeTable
-from optimizer.schedule_check import check_schedule
-from optimizer.synthetic import SyntheticSpec, synthetic_problem
+from optimizer.schedule.check import check_schedule
+from optimizer.schedule.diagnose import diagnose
+from optimizer.schedule.heuristic import stack_optimum, stack_shortest_path, transition
+from optimizer.schedule.ip import formulate, solve
+from optimizer.schedule.problem import Objective, Rules, Schedule, ScheduleProblem, StepRule, TypeTable
+from optimizer.schedule.synthetic import SyntheticSpec, synthetic_problem
 
 STEEL_KG_PER_MM2_M = 7850e-6  # kg per metre of bar per mm2 of area (7,850 kg/m3, common practice)
 

@@ -15,9 +15,9 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from optimizer.outputs import write_outputs
-from optimizer.report import write_report
-from optimizer.run import run_scenario
+from optimizer.pipeline.run import run_scenario
+from optimizer.reporting.outputs import write_outputs
+from optimizer.reporting.report import write_report
 
 ROOT = Path(__file__).resolve().parents[1]
 SCENARIO = ROOT / "scenarios" / "small_building.toml"

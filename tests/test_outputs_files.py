@@ -19,11 +19,11 @@ import pytest
 from openpyxl import load_workbook
 
 from optimizer import CAUTION
-from optimizer.outputs import write_outputs
-from optimizer.pictures import pareto_figure, write_pictures
-from optimizer.report import governing_cell, write_report
-from optimizer.run import run_scenario
-from optimizer.workbook import TABLE_SHEETS, write_workbook
+from optimizer.pipeline.run import run_scenario
+from optimizer.reporting.outputs import write_outputs
+from optimizer.reporting.pictures import pareto_figure, write_pictures
+from optimizer.reporting.report import governing_cell, write_report
+from optimizer.reporting.workbook import TABLE_SHEETS, write_workbook
 
 ROOT = Path(__file__).resolve().parents[1]
 SCENARIO = ROOT / "scenarios" / "small_building.toml"
@@ -308,8 +308,8 @@ def test_cross_ties_add_their_steel_to_the_links(run):
     135-degree hooks of 10 diameters, common practice) to the link steel of the cell."""
     import math
 
-    from optimizer.catalogue import type_arrays
-    from optimizer.feasibility import quantities
+    from optimizer.candidates.catalogue import type_arrays
+    from optimizer.candidates.feasibility import quantities
 
     fe, cat = run.feasibility, run.catalogue
     ta = type_arrays(cat)

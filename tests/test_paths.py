@@ -1,15 +1,15 @@
-"""The path formulation (optimizer.paths) and its compiled pricing (optimizer.stackdp) against independent truths.
+"""The path formulation (optimizer.schedule.paths) and its compiled pricing (optimizer.schedule.stackdp) against independent truths.
 
 Sources of truth used here (each test names its own):
 
-* the numpy dynamic program ``optimizer.heuristic._levels_dp`` (written apart from the compiled one);
+* the numpy dynamic program ``optimizer.schedule.heuristic._levels_dp`` (written apart from the compiled one);
 * a brute-force enumeration written in this file: every candidate combination of every stack is
-  listed and each rule of :class:`optimizer.problem.Rules` is restated literally (its own pair test,
+  listed and each rule of :class:`optimizer.schedule.problem.Rules` is restated literally (its own pair test,
   run-length count, grade-change count, starter bars, caps, prices, groups and pins). Nothing in it
   calls the code under test;
 * closed-form arguments on hand-made problems (a stack with no buildable path).
 
-Every problem is invented: the synthetic generator of ``optimizer.synthetic`` or a few hand-written
+Every problem is invented: the synthetic generator of ``optimizer.schedule.synthetic`` or a few hand-written
 types below.
 """
 
@@ -24,12 +24,12 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from optimizer import paths, stackdp
-from optimizer.heuristic import _levels_dp
-from optimizer.ip import solve
-from optimizer.problem import Objective, Rules, ScheduleProblem, StepRule, TypeTable
-from optimizer.schedule_check import check_schedule
-from optimizer.synthetic import SyntheticSpec, synthetic_problem
+from optimizer.schedule import paths, stackdp
+from optimizer.schedule.check import check_schedule
+from optimizer.schedule.heuristic import _levels_dp
+from optimizer.schedule.ip import solve
+from optimizer.schedule.problem import Objective, Rules, ScheduleProblem, StepRule, TypeTable
+from optimizer.schedule.synthetic import SyntheticSpec, synthetic_problem
 
 # Heavily reinforced synthetic catalogues (As / Ac from 2.5 % to 4 %, large bars, close sizes, heavy loads):
 # large sections full of steel under smaller ones, where the maximum steel at laps binds.

@@ -2,7 +2,7 @@
 
 Source of truth: the compact model solved to a zero gap (exact branch and bound over one binary per cell and
 type), itself held equal to brute-force enumeration on small instances in test_ip_bruteforce.py and
-test_paths.py; the independent rule checker (optimizer.schedule_check) for every schedule.
+test_paths.py; the independent rule checker (optimizer.schedule.check) for every schedule.
 """
 
 from dataclasses import replace
@@ -10,14 +10,15 @@ from pathlib import Path
 
 import pytest
 
-from optimizer.catalogue import build_catalogue
-from optimizer.feasibility import feasibility, to_problem
-from optimizer.ip import solve
-from optimizer.problem import Objective, Rules
-from optimizer.scenario import load_scenario_text
-from optimizer.schedule_check import check_schedule
-from optimizer.settings import read_run_settings
-from optimizer.takedown import scenario_actions
+from optimizer.building.scenario import load_scenario_text
+from optimizer.building.takedown import scenario_actions
+from optimizer.candidates.catalogue import build_catalogue
+from optimizer.candidates.feasibility import feasibility
+from optimizer.pipeline.assemble import to_problem
+from optimizer.pipeline.settings import read_run_settings
+from optimizer.schedule.check import check_schedule
+from optimizer.schedule.ip import solve
+from optimizer.schedule.problem import Objective, Rules
 
 SMALL = Path(__file__).resolve().parent.parent / "scenarios" / "small_building.toml"
 EXTRA = ('\n[catalogue]\nsizes_mm = {min = 300, max = 700, step = 100}\nshapes = ["square"]\n'

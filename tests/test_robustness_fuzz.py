@@ -431,31 +431,31 @@ SCENARIO_CASES = [
 # Cases the program gets wrong today: each reason names the file and function to fix.
 SCENARIO_BUGS = {
     "huge integer height": (_edit(SMALL_TEXT, "height_m = 4.5", "height_m = 1" + "0" * 400), "height_m", None,
-                            "optimizer/scenario.py _number: float() of a huge TOML integer raises OverflowError"),
+                            "optimizer/building/scenario.py _number: float() of a huge TOML integer raises OverflowError"),
     "huge integer outline": (_edit(SMALL_TEXT, "[[-0.3, -0.3], [15.3, -0.3]", "[[-0.3, -0.3], [1" + "0" * 400
                                    + ", -0.3]", 1), "outline_m", None,
-                             "optimizer/scenario.py _number: OverflowError on a huge integer"),
+                             "optimizer/building/scenario.py _number: OverflowError on a huge integer"),
     "storey height 1e300 m": (_edit(SMALL_TEXT, "height_m = 4.5", "height_m = 1e300"), "height_m", "1e+300",
-                              "optimizer/scenario.py _read_levels: no upper bound on height_m; a run with "
+                              "optimizer/building/scenario.py _read_levels: no upper bound on height_m; a run with "
                               "1e300 m storeys is accepted"),
     "stack at x = 1e300 m": (_edit(SMALL_TEXT, "x_m = 15.0", "x_m = 1e300"), "x_m", "1e+300",
-                             "optimizer/scenario.py _read_stacks: no bound on x_m/y_m; takedown then fails in "
+                             "optimizer/building/scenario.py _read_stacks: no bound on x_m/y_m; takedown then fails in "
                              "shapely voronoi_polygons with GEOSException (traceback)"),
     "trial size 1e300 mm": (_edit(SMALL_TEXT, "[350, 350]", "[1e300, 350]"), "trial_size_mm", "1e+300",
-                            "optimizer/scenario.py _read_settings: no upper bound on trial_size_mm; "
+                            "optimizer/building/scenario.py _read_settings: no upper bound on trial_size_mm; "
                             "takedown._section_I_m4 raises OverflowError (traceback)"),
     "sdl 1e300 kPa": (_edit(SMALL_TEXT, "sdl_kPa = 1.5", "sdl_kPa = 1e300"), "sdl_kPa", "1e+300",
-                      "optimizer/scenario.py _read_floors: no upper bound on loads; 1e300 kPa is accepted and "
+                      "optimizer/building/scenario.py _read_floors: no upper bound on loads; 1e300 kPa is accepted and "
                       "actions.csv is written with 300-digit forces"),
     "density 1e300 kN/m3": (_edit(SMALL_TEXT, "concrete_density_kN_m3 = 25.0", "concrete_density_kN_m3 = 1e300"),
                             "concrete_density_kN_m3", "1e+300",
-                            "optimizer/scenario.py _read_materials: no upper bound on concrete_density_kN_m3"),
+                            "optimizer/building/scenario.py _read_materials: no upper bound on concrete_density_kN_m3"),
     "concrete class below EN 1992 range": (_edit(SMALL_TEXT, 'concrete = "C30/37"', 'concrete = "C5"'),
                                            "concrete", "C5",
-                                           "optimizer/scenario.py _concrete: fck outside 12..90 MPa accepted"),
+                                           "optimizer/building/scenario.py _concrete: fck outside 12..90 MPa accepted"),
     "concrete class above EN 1992 range": (_edit(SMALL_TEXT, 'concrete = "C30/37"', 'concrete = "C200"'),
                                            "concrete", "C200",
-                                           "optimizer/scenario.py _concrete: fck outside 12..90 MPa accepted"),
+                                           "optimizer/building/scenario.py _concrete: fck outside 12..90 MPa accepted"),
 }
 
 
@@ -514,9 +514,9 @@ def test_out_would_overwrite_the_users_csv(robustness_tally, tmp_path):
 
 
 def _run_settings_outcome(path: Path) -> Outcome:
+    from optimizer.building.scenario import load_scenario
     from optimizer.errors import ColstackError
-    from optimizer.scenario import load_scenario
-    from optimizer.settings import read_run_settings
+    from optimizer.pipeline.settings import read_run_settings
 
     try:
         read_run_settings(load_scenario(path))
@@ -547,10 +547,10 @@ RULES_CASES = [
 ]
 RULES_BUGS = {
     "fractional max_types": ("[rules]\nmax_types = 1.5\n", "rules.max_types", "1.5",
-                             "optimizer/settings.py read_run_settings: int(1.5) silently truncates max_types "
+                             "optimizer/pipeline/settings.py read_run_settings: int(1.5) silently truncates max_types "
                              "(and max_sections) to 1"),
     "pinned is never read": ("[rules]\npinned = 5\n", "rules.pinned", "5",
-                             "optimizer/settings.py read_run_settings: 'pinned' is in the allowed keys but never "
+                             "optimizer/pipeline/settings.py read_run_settings: 'pinned' is in the allowed keys but never "
                              "parsed: any value is accepted and ignored"),
 }
 
@@ -749,13 +749,13 @@ CHECK_CASES = [
 ]
 CHECK_BUGS = {
     "huge json integer": (CHECK_JSON.replace('"b": 350', '"b": 1' + "0" * 400), ".json", "b", None,
-                          "optimizer/spec.py number: float() of a huge integer raises OverflowError"),
+                          "optimizer/cli/spec.py number: float() of a huge integer raises OverflowError"),
     "grade not a string": (CHECK_JSON.replace('"grade": "C35/45"', '"grade": 35'), ".json", "grade", "35",
-                           "optimizer/spec.py section_spec: grade = 35 is read as 'C35' via str(); a number is "
+                           "optimizer/cli/spec.py section_spec: grade = 35 is read as 'C35' via str(); a number is "
                            "accepted where a class name is required"),
     "working life as text": (CHECK_JSON.replace('"braced": true', '"braced": true, "working_life_100y": "no"'),
                              ".json", "working_life_100y", "no",
-                             "optimizer/cli_check.py parse_check_spec: bool('no') is True; the value is not "
+                             "optimizer/cli/check.py parse_check_spec: bool('no') is True; the value is not "
                              "checked to be true or false"),
 }
 

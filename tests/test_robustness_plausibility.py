@@ -6,9 +6,9 @@ from pathlib import Path
 
 import pytest
 
-from optimizer.plausibility import LIMITS, plausibility_warnings
-from optimizer.scenario import load_scenario, load_scenario_text
-from optimizer.takedown import read_actions_csv, scenario_actions
+from optimizer.building.plausibility import LIMITS, plausibility_warnings
+from optimizer.building.scenario import load_scenario, load_scenario_text
+from optimizer.building.takedown import read_actions_csv, scenario_actions
 
 ROOT = Path(__file__).resolve().parent.parent
 SMALL = ROOT / "scenarios" / "small_building.toml"

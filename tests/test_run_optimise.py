@@ -1,6 +1,6 @@
 """The optimisation stage of a run: a hard time limit, honest labels, a valid schedule.
 
-Checked with the independent rule checker (optimizer.schedule_check) on a synthetic tower; the
+Checked with the independent rule checker (optimizer.schedule.check) on a synthetic tower; the
 time limit is a promise to the user (a run must end), so it is checked with a generous margin for
 process start-up on a loaded 2-core machine, not as a speed target.
 """
@@ -11,10 +11,10 @@ import numpy as np
 import pytest
 
 from optimizer.cli import main
-from optimizer.problem import Rules
-from optimizer.run import optimise
-from optimizer.schedule_check import check_schedule
-from optimizer.synthetic import tower
+from optimizer.pipeline.run import optimise
+from optimizer.schedule.check import check_schedule
+from optimizer.schedule.problem import Rules
+from optimizer.schedule.synthetic import tower
 
 
 def test_time_limit_is_hard_and_label_is_honest():

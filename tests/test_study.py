@@ -13,11 +13,11 @@ import pandas as pd
 import pytest
 
 from optimizer import CAUTION
-from optimizer.catalogue import read_catalogue_spec
+from optimizer.building.scenario import load_scenario
+from optimizer.candidates.catalogue import read_catalogue_spec
 from optimizer.errors import ColstackError, InputError
-from optimizer.scenario import load_scenario
-from optimizer.settings import read_run_settings
-from optimizer.study import _FIGURES, _pareto, load_study, run_study, variant_scenario
+from optimizer.pipeline.settings import read_run_settings
+from optimizer.studies.study import _FIGURES, _pareto, load_study, run_study, variant_scenario
 
 ROOT = Path(__file__).resolve().parent.parent
 SMALL = ROOT / "scenarios" / "small_building.toml"
@@ -38,7 +38,7 @@ def _cli(argv: list[str]) -> int:
     """`colstack study ...` with the error handling of optimizer.cli.main (one line, exit status)."""
     import sys
 
-    from optimizer import cli_study
+    from optimizer.cli import study as cli_study
 
     parser = argparse.ArgumentParser(prog="colstack")
     sub = parser.add_subparsers(dest="command")
@@ -143,7 +143,7 @@ def test_dask_cluster_same_figures(sequential, study_file, tmp_path):
 
 
 def test_rerun_skips_finished_variants(sequential, study_file, tmp_path, monkeypatch):
-    import optimizer.study as study_mod
+    import optimizer.studies.study as study_mod
 
     _, seq, out = sequential
     work = tmp_path / "again"
@@ -180,7 +180,7 @@ def test_rerun_skips_finished_variants(sequential, study_file, tmp_path, monkeyp
 
 
 def test_interrupted_study_keeps_finished_results(study_file, tmp_path, monkeypatch):
-    import optimizer.study as study_mod
+    import optimizer.studies.study as study_mod
 
     calls = []
     interrupt = [True]

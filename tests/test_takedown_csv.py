@@ -4,15 +4,15 @@ from pathlib import Path
 
 import pytest
 
-from optimizer.errors import InputError
-from optimizer.scenario import load_scenario
-from optimizer.takedown import (
+from optimizer.building.scenario import load_scenario
+from optimizer.building.takedown import (
     ACTION_COLUMNS,
     read_actions_csv,
     scenario_actions,
     takedown,
     write_actions_csv,
 )
+from optimizer.errors import InputError
 
 ROOT = Path(__file__).resolve().parent.parent
 

@@ -1,9 +1,9 @@
-"""EN 1990 / EN 1991-1-1 factors of optimizer.loads against the standards' text."""
+"""EN 1990 / EN 1991-1-1 factors of optimizer.building.loads against the standards' text."""
 
 import pytest
 
 from design.params import parameter_set
-from optimizer.loads import (
+from optimizer.building.loads import (
     PSI_FACTORS,
     Category,
     Combination,
