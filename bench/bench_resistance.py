@@ -5,6 +5,9 @@ Measures MRd evaluations per second for 1,000,000 (section, NEd) pairs
 of the process, and, on the same kind of section, the time of one
 ultimate-capacity call of the open-source reference library concreteproperties,
 printed as a ratio. Figures only: no pass/fail here (speed is not a unit test).
+The figures are also written to ``bench/results/resistance.json`` (see ``bench/record.py``).
+
+Run: ``python bench/bench_resistance.py [--note TEXT]``.
 """
 
 from __future__ import annotations
@@ -13,12 +16,14 @@ import resource
 import time
 
 import numpy as np
+from record import argument_parser, machine, write_result
 
 from design.materials import Concrete, Reinforcement
 from design.resistance import DesignSection, SectionBatch, moment_resistance_scalar
 from design.sections import RectBars, RectSection
 
 TARGET_PAIRS_PER_S = 500_000
+TARGET_PEAK_MB = 2048
 
 
 def random_sections(n: int, seed: int = 1) -> list[DesignSection]:
@@ -86,10 +91,12 @@ def reference_library_time(ds: DesignSection) -> float | None:
     return time.perf_counter() - t0
 
 
-def main() -> None:
-    """Run the benchmark and print its figures."""
+def main(note: str | None = None) -> None:
+    """Run the benchmark, print its figures and write them to ``bench/results/resistance.json``."""
+    started = machine(["concreteproperties"])
     print("colstack benchmark: section resistance by strain compatibility (EN 1992-1-1, 6.1)")
     n_sections, per_section = 1_000, 1_000
+    NEd_from, NEd_to = -0.2, 1.0
     designs = random_sections(n_sections)
     rng = np.random.default_rng(7)
 
@@ -99,21 +106,23 @@ def main() -> None:
     t_build = time.perf_counter() - t0
 
     idx = np.repeat(np.arange(n_sections), per_section)
-    NEd = rng.uniform(-0.2, 1.0, idx.size) * NRd[idx]
+    NEd = rng.uniform(NEd_from, NEd_to, idx.size) * NRd[idx]
     t0 = time.perf_counter()
     MRd = batch.moment_resistance(NEd, "y", idx)
     t_solve = time.perf_counter() - t0
     pairs = idx.size
     rate = pairs / (t_build + t_solve)
+    peak = peak_rss_mb()
     print(f"  pairs (section, NEd)          {pairs:,}")
     print(f"  batch build + N(s) tables     {t_build:8.2f} s")
     print(f"  MRd solve                     {t_solve:8.2f} s")
     print(f"  throughput (all included)     {rate:12,.0f} pairs/s   target {TARGET_PAIRS_PER_S:,}  "
           f"ratio {rate / TARGET_PAIRS_PER_S:.2f}")
-    print(f"  peak memory                   {peak_rss_mb():8.0f} MB    target < 2048 MB")
+    print(f"  peak memory                   {peak:8.0f} MB    target < {TARGET_PEAK_MB} MB")
 
     # Scalar reference path on a sample, for the ratio and a spot check.
-    sample = rng.choice(pairs, 20, replace=False)
+    n_sample = 20
+    sample = rng.choice(pairs, n_sample, replace=False)
     t0 = time.perf_counter()
     worst = 0.0
     for k in sample:
@@ -131,6 +140,30 @@ def main() -> None:
         print(f"  concreteproperties            {1e3 * t_ref:8.1f} ms per ultimate-capacity call   "
               f"ratio to one vectorised pair: {t_ref * rate:,.0f}x")
 
+    write_result("resistance", started, inputs={
+        "n_sections": n_sections,
+        "n_NEd_per_section": per_section,
+        "n_pairs": pairs,
+        "NEd_from_ratio": NEd_from,  # NEd / NRd of the section
+        "NEd_to_ratio": NEd_to,
+        "n_scalar_sample": n_sample,
+        "reference_library": "concreteproperties",
+    }, figures={
+        "build_s": t_build,
+        "solve_s": t_solve,
+        "total_s": t_build + t_solve,
+        "pairs_per_s": rate,
+        "target_pairs_per_s": TARGET_PAIRS_PER_S,
+        "ratio_to_target": rate / TARGET_PAIRS_PER_S,
+        "peak_MB": peak,
+        "target_peak_MB": TARGET_PEAK_MB,
+        "scalar_ms_per_pair": 1e3 * t_scalar,
+        "scalar_over_vectorised_x": t_scalar * rate,
+        "scalar_max_rel_diff_ratio": worst,
+        "reference_ms_per_call": None if t_ref is None else 1e3 * t_ref,
+        "reference_over_vectorised_x": None if t_ref is None else t_ref * rate,
+    }, note=note)
+
 
 if __name__ == "__main__":
-    main()
+    main(argument_parser(__doc__).parse_args().note)

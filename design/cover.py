@@ -27,7 +27,7 @@ from dataclasses import dataclass
 from enum import StrEnum
 
 import numpy as np
-from numpy.typing import ArrayLike
+from numpy.typing import ArrayLike, NDArray
 
 from design.materials import STANDARD_CLASSES
 from design.params import EN_RECOMMENDED, NationalParameters
@@ -201,11 +201,11 @@ AGGREGATE_LIMIT_MM = 32.0  # EN 1992-1-1, Table 4.2, note: +5 mm if dg > 32 mm
 CMIN_ABSOLUTE_MM = 10.0  # EN 1992-1-1, Eq. (4.2)
 
 
-def _arr(x: ArrayLike) -> np.ndarray:
+def _arr(x: ArrayLike) -> NDArray[np.float64]:
     return np.asarray(x, dtype=float)
 
 
-def cmin_b(phi: ArrayLike, dg: ArrayLike = 20.0) -> np.ndarray:
+def cmin_b(phi: ArrayLike, dg: ArrayLike = 20.0) -> NDArray[np.float64]:
     """Minimum cover for bond, cmin,b = phi (+5 mm if dg > 32 mm), mm.
 
     EN 1992-1-1, 4.4.1.2(3), Table 4.2 (separated bars; for links pass the
@@ -247,7 +247,7 @@ def structural_class(
     slab_geometry: bool = False,
     special_qc: bool = False,
     params: NationalParameters = EN_RECOMMENDED,
-) -> np.ndarray:
+) -> NDArray[np.int_]:
     """Structural class (1..6 for S1..S6) after the Table 4.3N modifications.
 
     EN 1992-1-1, 4.4.1.2(5), Table 4.3N
@@ -274,13 +274,13 @@ def structural_class(
         msg = f"structural_class_50y must be 1..6 (S1..S6), got {base} (-)"
         raise ValueError(msg)
     fck = _arr(fck)
-    s = (base + (2 if working_life_100y else 0) - (1 if slab_geometry else 0)
-         - (1 if special_qc else 0))
-    s = s - np.where(fck >= _STRENGTH_FCK[exposure], 1, 0)
-    return np.clip(s, 1, 6).astype(int)
+    s_general = (base + (2 if working_life_100y else 0) - (1 if slab_geometry else 0)
+                 - (1 if special_qc else 0))
+    s = s_general - np.where(fck >= _STRENGTH_FCK[exposure], 1, 0)
+    return np.clip(s, 1, 6).astype(int)  # type: ignore[no-any-return]  # numpy stubs: np.clip of an NDArray[Any] is Any
 
 
-def cmin_dur(exposure: ExposureClass, s_class: ArrayLike) -> np.ndarray:
+def cmin_dur(exposure: ExposureClass, s_class: ArrayLike) -> NDArray[np.int_]:
     """Minimum cover for durability from Table 4.4N (reinforcing steel), mm.
 
     EN 1992-1-1, 4.4.1.2(5), Table 4.4N
@@ -295,7 +295,7 @@ def cmin_dur(exposure: ExposureClass, s_class: ArrayLike) -> np.ndarray:
     if not np.all((s >= 1) & (s <= 6) & (s == np.round(s))):
         msg = f"structural class must be an integer 1..6 (S1..S6), got {s} (-)"
         raise ValueError(msg)
-    return CMIN_DUR_TABLE_4_4N[s.astype(int) - 1, _DUR_COLUMN[exposure]]
+    return CMIN_DUR_TABLE_4_4N[s.astype(int) - 1, _DUR_COLUMN[exposure]]  # type: ignore[no-any-return]  # numpy stubs: fancy indexing is Any
 
 
 @dataclass(frozen=True)
@@ -341,7 +341,7 @@ def cmin_dur_for(
 
     """
     exp = parse_exposure(exposure)
-    best = None
+    best: tuple[np.ndarray, np.ndarray, np.ndarray] | None = None
     for c in exp.cover_classes:
         s = structural_class(c, fck, working_life_100y, slab_geometry, special_qc, params)
         dur = cmin_dur(c, s)
@@ -351,6 +351,9 @@ def cmin_dur_for(
         else:
             take = dur > best[0]
             best = (np.where(take, dur, best[0]), np.where(take, s, best[1]), np.where(take, name, best[2]))
+    if best is None:  # never: an Exposure holds at least one class of Table 4.4N
+        msg = f"exposure {exp.name!r} has no class of EN 1992-1-1 Table 4.4N"
+        raise ValueError(msg)
     dur, s, name = best
     return CminDur(cmin_dur=np.asarray(dur, dtype=float), s_class=np.asarray(s, dtype=int),
                    governing=np.asarray(name))
@@ -358,7 +361,7 @@ def cmin_dur_for(
 
 def cmin(
     cmin_b: ArrayLike, cmin_dur: ArrayLike, params: NationalParameters = EN_RECOMMENDED
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Minimum cover cmin = max(cmin,b, cmin,dur + dc_gamma - dc_st - dc_add, 10 mm), mm.
 
     EN 1992-1-1, Eq. (4.2)
@@ -376,7 +379,7 @@ def cmin(
     return np.maximum(np.maximum(_arr(cmin_b), dur), CMIN_ABSOLUTE_MM)
 
 
-def cnom(cmin: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> np.ndarray:
+def cnom(cmin: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> NDArray[np.float64]:
     """Nominal cover cnom = cmin + delta_c_dev, mm.
 
     EN 1992-1-1, Eq. (4.1)

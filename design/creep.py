@@ -36,7 +36,7 @@ from dataclasses import dataclass
 from enum import StrEnum
 
 import numpy as np
-from numpy.typing import ArrayLike
+from numpy.typing import ArrayLike, NDArray
 
 __all__ = [
     "CementClass",
@@ -65,7 +65,7 @@ RATIO_MAX = 1.5  # upper bound accepted for M0Eqp / M0Ed in Eq. (5.19) (see phi_
 K_SIGMA_LINEAR = 0.45  # EN 1992-1-1, 3.1.4(2) and (4): limit of linear creep, sigma_c / fck(t0).
 
 
-def _arr(x: ArrayLike) -> np.ndarray:
+def _arr(x: ArrayLike) -> NDArray[np.float64]:
     return np.asarray(x, dtype=float)
 
 
@@ -158,7 +158,7 @@ class CreepSettings:
 # --------------------------------------------------------------------------
 
 
-def notional_size(Ac: ArrayLike, u: ArrayLike) -> np.ndarray:
+def notional_size(Ac: ArrayLike, u: ArrayLike) -> NDArray[np.float64]:
     """Notional size h0 = 2 Ac / u of the cross-section, mm.
 
     EN 1992-1-1, 3.1.4(5) and Eq. (B.6)
@@ -175,7 +175,7 @@ def notional_size(Ac: ArrayLike, u: ArrayLike) -> np.ndarray:
     return 2.0 * Ac / u
 
 
-def perimeter_rectangle(b: ArrayLike, h: ArrayLike) -> np.ndarray:
+def perimeter_rectangle(b: ArrayLike, h: ArrayLike) -> NDArray[np.float64]:
     """Perimeter u = 2 (b + h) of a rectangle exposed to drying on all faces, mm.
 
     EN 1992-1-1, 3.1.4(5) (u for a column drying on its whole perimeter)
@@ -191,7 +191,7 @@ def perimeter_rectangle(b: ArrayLike, h: ArrayLike) -> np.ndarray:
     return 2.0 * (b + h)
 
 
-def perimeter_circle(D: ArrayLike) -> np.ndarray:
+def perimeter_circle(D: ArrayLike) -> NDArray[np.float64]:
     """Perimeter u = pi D of a circle exposed to drying all round, mm.
 
     EN 1992-1-1, 3.1.4(5) (u for a column drying on its whole perimeter)
@@ -226,7 +226,7 @@ def alpha_123(fcm: ArrayLike) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     return r**0.7, r**0.2, r**0.5
 
 
-def phi_RH(RH: ArrayLike, h0: ArrayLike, fcm: ArrayLike) -> np.ndarray:
+def phi_RH(RH: ArrayLike, h0: ArrayLike, fcm: ArrayLike) -> NDArray[np.float64]:
     """Factor for the effect of relative humidity on the notional creep coefficient (-).
 
     EN 1992-1-1, Eqs. (B.3a) and (B.3b)
@@ -248,7 +248,7 @@ def phi_RH(RH: ArrayLike, h0: ArrayLike, fcm: ArrayLike) -> np.ndarray:
     return np.where(fcm <= FCM_SWITCH, 1.0 + dry, (1.0 + dry * a1) * a2)
 
 
-def beta_fcm(fcm: ArrayLike) -> np.ndarray:
+def beta_fcm(fcm: ArrayLike) -> NDArray[np.float64]:
     """Factor for the effect of concrete strength, 16.8 / sqrt(fcm) (-).
 
     EN 1992-1-1, Eq. (B.4)
@@ -262,7 +262,7 @@ def beta_fcm(fcm: ArrayLike) -> np.ndarray:
     return 16.8 / np.sqrt(fcm)
 
 
-def beta_t0(t0: ArrayLike) -> np.ndarray:
+def beta_t0(t0: ArrayLike) -> NDArray[np.float64]:
     """Factor for the effect of the age at loading, 1 / (0.1 + t0^0.20) (-).
 
     EN 1992-1-1, Eq. (B.5)
@@ -289,7 +289,7 @@ def alpha_cement(cement: CementClass | str) -> float:
     return _ALPHA_CEMENT[_cement(cement)]
 
 
-def t0_adjusted(t0: ArrayLike, cement: CementClass | str = CementClass.N) -> np.ndarray:
+def t0_adjusted(t0: ArrayLike, cement: CementClass | str = CementClass.N) -> NDArray[np.float64]:
     """Age at loading modified for the type of cement, days.
 
     EN 1992-1-1, Eq. (B.9)
@@ -311,7 +311,7 @@ def t0_adjusted(t0: ArrayLike, cement: CementClass | str = CementClass.N) -> np.
 
 def phi_0(
     RH: ArrayLike, h0: ArrayLike, fcm: ArrayLike, t0: ArrayLike, cement: CementClass | str = CementClass.N
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Notional creep coefficient phi_0 = phi_RH beta(fcm) beta(t0) (-).
 
     EN 1992-1-1, Eq. (B.2)
@@ -332,7 +332,7 @@ def phi_0(
 
 def phi_inf(
     RH: ArrayLike, h0: ArrayLike, fcm: ArrayLike, t0: ArrayLike, cement: CementClass | str = CementClass.N
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Final creep coefficient phi(inf, t0) (-).
 
     EN 1992-1-1, Eq. (B.1)
@@ -354,7 +354,7 @@ def phi_inf(
     return phi_0(RH, h0, fcm, t0, cement) * beta_c_inf
 
 
-def phi_inf_section(Ac: ArrayLike, u: ArrayLike, fcm: ArrayLike, settings: CreepSettings) -> np.ndarray:
+def phi_inf_section(Ac: ArrayLike, u: ArrayLike, fcm: ArrayLike, settings: CreepSettings) -> NDArray[np.float64]:
     """Final creep coefficient phi(inf, t0) of sections under the given settings (-).
 
     EN 1992-1-1, Eq. (B.1) with h0 = 2 Ac / u, 3.1.4(5)
@@ -377,7 +377,7 @@ def phi_inf_section(Ac: ArrayLike, u: ArrayLike, fcm: ArrayLike, settings: Creep
 # --------------------------------------------------------------------------
 
 
-def phi_ef(phi_inf: ArrayLike, M0Eqp_over_M0Ed: ArrayLike) -> np.ndarray:
+def phi_ef(phi_inf: ArrayLike, M0Eqp_over_M0Ed: ArrayLike) -> NDArray[np.float64]:
     """Effective creep ratio phi_ef = phi(inf, t0) M0Eqp / M0Ed (-).
 
     EN 1992-1-1, 5.8.4(2), Eq. (5.19)
@@ -405,7 +405,7 @@ def phi_ef(phi_inf: ArrayLike, M0Eqp_over_M0Ed: ArrayLike) -> np.ndarray:
     return phi * ratio
 
 
-def phi_nonlinear(phi: ArrayLike, k_sigma: ArrayLike) -> np.ndarray:
+def phi_nonlinear(phi: ArrayLike, k_sigma: ArrayLike) -> NDArray[np.float64]:
     """Creep coefficient increased for non-linear creep (-).
 
     EN 1992-1-1, 3.1.4(4), Eq. (3.7)

@@ -12,7 +12,7 @@ from __future__ import annotations
 from enum import StrEnum
 
 import numpy as np
-from numpy.typing import ArrayLike
+from numpy.typing import ArrayLike, NDArray
 
 from design.params import EN_RECOMMENDED, NationalParameters
 from design.results import CheckResult
@@ -49,7 +49,7 @@ class ColumnShape(StrEnum):
     CIRCULAR = "circular"
 
 
-def _arr(x: ArrayLike) -> np.ndarray:
+def _arr(x: ArrayLike) -> NDArray[np.float64]:
     return np.asarray(x, dtype=float)
 
 
@@ -66,7 +66,7 @@ def _positive(name: str, value: np.ndarray, unit: str) -> None:
 
 def As_min(
     NEd: ArrayLike, fyd: ArrayLike, Ac: ArrayLike, params: NationalParameters = EN_RECOMMENDED
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Minimum longitudinal reinforcement max(0.10 NEd/fyd, 0.002 Ac), mm2.
 
     EN 1992-1-1, 9.5.2(2), Eq. (9.12N)
@@ -88,7 +88,7 @@ def As_min(
 
 def As_max(
     Ac: ArrayLike, at_lap: bool = False, params: NationalParameters = EN_RECOMMENDED
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Maximum longitudinal reinforcement, 0.04 Ac (0.08 Ac at laps), mm2.
 
     EN 1992-1-1, 9.5.2(3)
@@ -118,7 +118,7 @@ def n_bars_min(shape: ColumnShape) -> int:
 
 def min_clear_spacing(
     phi: ArrayLike, dg: ArrayLike, params: NationalParameters = EN_RECOMMENDED
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Minimum clear distance between bars max(k1 phi, dg + k2, 20 mm), mm.
 
     EN 1992-1-1, 8.2(2)
@@ -136,7 +136,7 @@ def min_clear_spacing(
     return np.maximum(np.maximum(params.k1_spacing * phi, dg + params.k2_spacing_mm), 20.0)
 
 
-def link_dia_min(phi_max: ArrayLike) -> np.ndarray:
+def link_dia_min(phi_max: ArrayLike) -> NDArray[np.float64]:
     """Minimum diameter of links max(6 mm, phi_max / 4), mm.
 
     EN 1992-1-1, 9.5.3(1)
@@ -155,7 +155,7 @@ def scl_tmax(
     b_min: ArrayLike,
     reduced: ArrayLike = False,
     params: NationalParameters = EN_RECOMMENDED,
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Maximum spacing of links min(20 phi_min, b_min, 400 mm), times 0.6 where reduced, mm.
 
     EN 1992-1-1, 9.5.3(3) and (4)
@@ -176,7 +176,7 @@ def scl_tmax(
     return np.where(np.asarray(reduced, dtype=bool), params.scl_reduction * s, s)
 
 
-def distance_to_restrained(positions: ArrayLike, restrained: ArrayLike) -> np.ndarray:
+def distance_to_restrained(positions: ArrayLike, restrained: ArrayLike) -> NDArray[np.float64]:
     """Distance from each bar of one face to the nearest restrained bar, mm.
 
     EN 1992-1-1, 9.5.3(6) (centre-to-centre along the face; taking centres
@@ -194,7 +194,7 @@ def distance_to_restrained(positions: ArrayLike, restrained: ArrayLike) -> np.nd
         msg = (f"positions and restrained need the same length and one restrained bar, "
                f"got {x.size} positions, {r.size} flags, {int(r.sum())} restrained bars")
         raise ValueError(msg)
-    return np.min(np.abs(x[:, None] - x[r][None, :]), axis=1)
+    return np.min(np.abs(x[:, None] - x[r][None, :]), axis=1)  # type: ignore[no-any-return]  # numpy stubs: np.min with axis= is Any
 
 
 def extra_ties_needed(
@@ -245,7 +245,7 @@ def link_count(
     phi_max_long: ArrayLike,
     lap_length: ArrayLike = 0.0,
     params: NationalParameters = EN_RECOMMENDED,
-) -> np.ndarray:
+) -> NDArray[np.int_]:
     """Link sets needed over one storey's clear height (count, -).
 
     EN 1992-1-1, 9.5.3(3) and (4)
@@ -284,8 +284,8 @@ def link_count(
     Lt = np.minimum(hm, L - Lb)
     Lm = L - Lb - Lt
 
-    def n(length: np.ndarray, spacing: np.ndarray) -> np.ndarray:
-        return np.ceil(length / spacing - 1e-9)
+    def n(length: np.ndarray, spacing: np.ndarray) -> NDArray[np.float64]:
+        return np.ceil(length / spacing - 1e-9)  # type: ignore[no-any-return]  # numpy stubs: ufunc of an unparametrised ndarray is Any
 
     return (n(Lb, s_bot) + n(Lm, s) + n(Lt, s_red) + 1).astype(int)
 

@@ -20,7 +20,7 @@ from __future__ import annotations
 from enum import IntEnum
 
 import numpy as np
-from numpy.typing import ArrayLike
+from numpy.typing import ArrayLike, NDArray
 
 from design.params import EN_RECOMMENDED, NationalParameters
 from design.results import CheckResult
@@ -93,11 +93,11 @@ TABLE_5_2A_ONE_SIDE: dict[FireRating, tuple[float, float]] = {
 _MU_COLUMNS = (0.2, 0.5, 0.7)
 
 
-def _arr(x: ArrayLike) -> np.ndarray:
+def _arr(x: ArrayLike) -> NDArray[np.float64]:
     return np.asarray(x, dtype=float)
 
 
-def mu_fi(NEd_fi: ArrayLike, NRd: ArrayLike) -> np.ndarray:
+def mu_fi(NEd_fi: ArrayLike, NRd: ArrayLike) -> NDArray[np.float64]:
     """Degree of utilisation in fire, mu_fi = NEd,fi / NRd (-).
 
     EN 1992-1-2, 5.3.2(3)
@@ -117,7 +117,7 @@ def mu_fi(NEd_fi: ArrayLike, NRd: ArrayLike) -> np.ndarray:
     return _arr(NEd_fi) / NRd
 
 
-def axis_distance(c_link: ArrayLike, phi_link: ArrayLike, phi_main: ArrayLike) -> np.ndarray:
+def axis_distance(c_link: ArrayLike, phi_link: ArrayLike, phi_main: ArrayLike) -> NDArray[np.float64]:
     """Axis distance of the main bars a = c_link + phi_link + phi_main / 2, mm.
 
     EN 1992-1-2, 5.2(1), Fig. 5.2 (nominal values)
@@ -155,7 +155,7 @@ def average_axis_distance(areas: ArrayLike, a: ArrayLike) -> float:
     return float(np.sum(areas * a) / np.sum(areas))
 
 
-def b_prime(b: ArrayLike, h: ArrayLike | None = None) -> np.ndarray:
+def b_prime(b: ArrayLike, h: ArrayLike | None = None) -> NDArray[np.float64]:
     """Equivalent width b' = 2 Ac / (b + h) (rectangle) or the diameter (circle), mm.
 
     EN 1992-1-2, 5.3.2(2), Eq. (5.7) terms
@@ -173,7 +173,7 @@ def b_prime(b: ArrayLike, h: ArrayLike | None = None) -> np.ndarray:
     return 2.0 * b * h / (b + h)
 
 
-def R_eta_fi(mu_fi: ArrayLike, omega: ArrayLike, alpha_cc: float = 1.0) -> np.ndarray:
+def R_eta_fi(mu_fi: ArrayLike, omega: ArrayLike, alpha_cc: float = 1.0) -> NDArray[np.float64]:
     """Term R_eta_fi = 83 (1 - mu_fi (1 + omega) / (0.85/alpha_cc + omega)), minutes.
 
     EN 1992-1-2, Eq. (5.7)
@@ -189,7 +189,7 @@ def R_eta_fi(mu_fi: ArrayLike, omega: ArrayLike, alpha_cc: float = 1.0) -> np.nd
     return 83.0 * (1.0 - mu * (1.0 + om) / (0.85 / alpha_cc + om))
 
 
-def R_a(a: ArrayLike) -> np.ndarray:
+def R_a(a: ArrayLike) -> NDArray[np.float64]:
     """Term R_a = 1.60 (a - 30), minutes, a in mm (25 <= a <= 80).
 
     EN 1992-1-2, Eq. (5.7)
@@ -201,7 +201,7 @@ def R_a(a: ArrayLike) -> np.ndarray:
     return 1.60 * (_arr(a) - 30.0)
 
 
-def R_l(l0_fi: ArrayLike) -> np.ndarray:
+def R_l(l0_fi: ArrayLike) -> NDArray[np.float64]:
     """Term R_l = 9.60 (5 - l0,fi), minutes, l0,fi in m (2 <= l0,fi <= 6).
 
     EN 1992-1-2, Eq. (5.7)
@@ -213,7 +213,7 @@ def R_l(l0_fi: ArrayLike) -> np.ndarray:
     return 9.60 * (5.0 - _arr(l0_fi) / 1000.0)
 
 
-def R_b(b_prime: ArrayLike) -> np.ndarray:
+def R_b(b_prime: ArrayLike) -> NDArray[np.float64]:
     """Term R_b = 0.09 b', minutes, b' in mm (200 <= b' <= 450).
 
     EN 1992-1-2, Eq. (5.7)
@@ -225,7 +225,7 @@ def R_b(b_prime: ArrayLike) -> np.ndarray:
     return 0.09 * _arr(b_prime)
 
 
-def R_n(n_bars: ArrayLike) -> np.ndarray:
+def R_n(n_bars: ArrayLike) -> NDArray[np.float64]:
     """Term R_n = 0 for 4 bars (corner bars only), 12 for more, minutes.
 
     EN 1992-1-2, Eq. (5.7)
@@ -239,7 +239,7 @@ def R_n(n_bars: ArrayLike) -> np.ndarray:
 
 def R_fire(
     R_eta_fi: ArrayLike, R_a: ArrayLike, R_l: ArrayLike, R_b: ArrayLike, R_n: ArrayLike
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Fire resistance R = 120 ((R_eta_fi + R_a + R_l + R_b + R_n) / 120)^1.8, minutes.
 
     EN 1992-1-2, Eq. (5.7)

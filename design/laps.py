@@ -9,7 +9,7 @@ from __future__ import annotations
 from enum import StrEnum
 
 import numpy as np
-from numpy.typing import ArrayLike
+from numpy.typing import ArrayLike, NDArray
 
 from design.materials import fctk_005, fyd
 from design.params import EN_RECOMMENDED, NationalParameters
@@ -38,7 +38,7 @@ class BondCondition(StrEnum):
     POOR = "poor"  # eta1 = 0.7
 
 
-def _arr(x: ArrayLike) -> np.ndarray:
+def _arr(x: ArrayLike) -> NDArray[np.float64]:
     return np.asarray(x, dtype=float)
 
 
@@ -54,7 +54,7 @@ def eta1(bond: BondCondition = BondCondition.GOOD) -> float:
     return 1.0 if BondCondition(bond) is BondCondition.GOOD else 0.7
 
 
-def eta2(phi: ArrayLike) -> np.ndarray:
+def eta2(phi: ArrayLike) -> NDArray[np.float64]:
     """Coefficient for the bar diameter, 1.0 for phi <= 32, (132 - phi)/100 above (-).
 
     EN 1992-1-1, 8.4.2(2)
@@ -70,7 +70,7 @@ def eta2(phi: ArrayLike) -> np.ndarray:
     return np.where(phi <= PHI_ETA2_MM, 1.0, (132.0 - phi) / 100.0)
 
 
-def fctd(fck: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> np.ndarray:
+def fctd(fck: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> NDArray[np.float64]:
     """Design tensile strength for bond, alpha_ct fctk,0.05 / gamma_c, MPa.
 
     EN 1992-1-1, Eq. (3.16), with fctk,0.05 capped at the C60/75 value (8.4.2(2))
@@ -92,7 +92,7 @@ def fbd(
     phi: ArrayLike,
     bond: BondCondition = BondCondition.GOOD,
     params: NationalParameters = EN_RECOMMENDED,
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Ultimate bond stress fbd = 2.25 eta1 eta2 fctd, MPa.
 
     EN 1992-1-1, Eq. (8.2)
@@ -108,7 +108,7 @@ def fbd(
     return 2.25 * eta1(bond) * eta2(phi) * fctd(fck, params)
 
 
-def lb_rqd(phi: ArrayLike, sigma_sd: ArrayLike, fbd: ArrayLike) -> np.ndarray:
+def lb_rqd(phi: ArrayLike, sigma_sd: ArrayLike, fbd: ArrayLike) -> NDArray[np.float64]:
     """Basic required anchorage length lb,rqd = (phi/4)(sigma_sd/fbd), mm.
 
     EN 1992-1-1, Eq. (8.3)
@@ -127,7 +127,7 @@ def lb_rqd(phi: ArrayLike, sigma_sd: ArrayLike, fbd: ArrayLike) -> np.ndarray:
     return _arr(phi) / 4.0 * np.abs(_arr(sigma_sd)) / fbd
 
 
-def alpha6(rho1: ArrayLike) -> np.ndarray:
+def alpha6(rho1: ArrayLike) -> NDArray[np.float64]:
     """Coefficient alpha6 = (rho1/25)^0.5, between 1.0 and 1.5 (-).
 
     EN 1992-1-1, 8.7.3(1), Table 8.3
@@ -144,7 +144,7 @@ def alpha6(rho1: ArrayLike) -> np.ndarray:
     return np.clip(np.sqrt(rho1 / 25.0), 1.0, 1.5)
 
 
-def l0_min(lb_rqd: ArrayLike, alpha6: ArrayLike, phi: ArrayLike) -> np.ndarray:
+def l0_min(lb_rqd: ArrayLike, alpha6: ArrayLike, phi: ArrayLike) -> NDArray[np.float64]:
     """Minimum lap length max(0.3 alpha6 lb,rqd, 15 phi, 200 mm), mm.
 
     EN 1992-1-1, Eq. (8.11)
@@ -169,7 +169,7 @@ def l0_lap(
     alpha2: ArrayLike = 1.0,
     alpha3: ArrayLike = 1.0,
     alpha5: ArrayLike = 1.0,
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Design lap length l0 = alpha1 alpha2 alpha3 alpha5 alpha6 lb,rqd >= l0,min, mm.
 
     EN 1992-1-1, Eq. (8.10) with Eq. (8.11)
@@ -206,7 +206,7 @@ def lap_length(
     rho1: ArrayLike = 100.0,
     bond: BondCondition = BondCondition.GOOD,
     params: NationalParameters = EN_RECOMMENDED,
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Lap length of column bars with alpha1..alpha5 = 1, mm.
 
     EN 1992-1-1, 8.7.3, Eqs. (8.2), (8.3), (8.10), (8.11)

@@ -18,7 +18,7 @@ from enum import Enum
 from typing import Literal
 
 import numpy as np
-from numpy.typing import ArrayLike
+from numpy.typing import ArrayLike, NDArray
 
 from design.params import EN_RECOMMENDED, NationalParameters
 
@@ -45,8 +45,10 @@ STANDARD_CLASSES: dict[int, int] = {
 }
 
 
-def _hs(fck: ArrayLike) -> np.ndarray:
+def _hs(fck: ArrayLike) -> NDArray[np.bool_]:
     """True where the high-strength expressions of Table 3.1 are used (fck > 50).
+
+    EN 1992-1-1, Table 3.1
 
     Table 3.1 states them "for fck >= 50 MPa", but at fck = 50 they give
     n = 1.999, eps_cu2 = 3.496 per mille where the table's C50/60 column reads
@@ -55,7 +57,7 @@ def _hs(fck: ArrayLike) -> np.ndarray:
     return np.asarray(fck, dtype=float) > 50.0
 
 
-def fcm(fck: ArrayLike) -> np.ndarray:
+def fcm(fck: ArrayLike) -> NDArray[np.float64]:
     """Mean compressive strength, MPa.
 
     EN 1992-1-1, Table 3.1: fcm = fck + 8.
@@ -63,7 +65,7 @@ def fcm(fck: ArrayLike) -> np.ndarray:
     return np.asarray(fck, dtype=float) + 8.0
 
 
-def fctm(fck: ArrayLike) -> np.ndarray:
+def fctm(fck: ArrayLike) -> NDArray[np.float64]:
     """Mean axial tensile strength, MPa.
 
     EN 1992-1-1, Table 3.1: 0.30 fck^(2/3) up to C50/60; 2.12 ln(1 + fcm/10) above.
@@ -72,7 +74,7 @@ def fctm(fck: ArrayLike) -> np.ndarray:
     return np.where(_hs(f), 2.12 * np.log1p(fcm(f) / 10.0), 0.30 * f ** (2.0 / 3.0))
 
 
-def fctk_005(fck: ArrayLike) -> np.ndarray:
+def fctk_005(fck: ArrayLike) -> NDArray[np.float64]:
     """Characteristic axial tensile strength, 5 % fractile, MPa.
 
     EN 1992-1-1, Table 3.1: fctk,0.05 = 0.7 fctm.
@@ -80,7 +82,7 @@ def fctk_005(fck: ArrayLike) -> np.ndarray:
     return 0.7 * fctm(fck)
 
 
-def Ecm(fck: ArrayLike) -> np.ndarray:
+def Ecm(fck: ArrayLike) -> NDArray[np.float64]:
     """Secant modulus of elasticity, MPa (quartzite aggregate).
 
     EN 1992-1-1, Table 3.1: Ecm = 22 (fcm/10)^0.3 GPa.
@@ -88,7 +90,7 @@ def Ecm(fck: ArrayLike) -> np.ndarray:
     return 22_000.0 * (fcm(fck) / 10.0) ** 0.3
 
 
-def eps_c1(fck: ArrayLike) -> np.ndarray:
+def eps_c1(fck: ArrayLike) -> NDArray[np.float64]:
     """Strain at peak stress, nonlinear analysis diagram.
 
     EN 1992-1-1, Table 3.1: eps_c1 = 0.7 fcm^0.31 per mille, at most 2.8 per mille.
@@ -96,7 +98,7 @@ def eps_c1(fck: ArrayLike) -> np.ndarray:
     return np.minimum(0.7 * fcm(fck) ** 0.31, 2.8) / 1000.0
 
 
-def eps_cu1(fck: ArrayLike) -> np.ndarray:
+def eps_cu1(fck: ArrayLike) -> NDArray[np.float64]:
     """Ultimate strain, nonlinear analysis diagram.
 
     EN 1992-1-1, Table 3.1: 3.5 per mille; 2.8 + 27 ((98 - fcm)/100)^4 for fck >= 50.
@@ -105,7 +107,7 @@ def eps_cu1(fck: ArrayLike) -> np.ndarray:
     return np.where(_hs(f), 2.8 + 27.0 * ((98.0 - fcm(f)) / 100.0) ** 4, 3.5) / 1000.0
 
 
-def eps_c2(fck: ArrayLike) -> np.ndarray:
+def eps_c2(fck: ArrayLike) -> NDArray[np.float64]:
     """Strain at reaching the maximum strength, parabola-rectangle diagram.
 
     EN 1992-1-1, Table 3.1: 2.0 per mille; 2.0 + 0.085 (fck - 50)^0.53 for fck >= 50.
@@ -114,7 +116,7 @@ def eps_c2(fck: ArrayLike) -> np.ndarray:
     return np.where(_hs(f), 2.0 + 0.085 * np.maximum(f - 50.0, 0.0) ** 0.53, 2.0) / 1000.0
 
 
-def eps_cu2(fck: ArrayLike) -> np.ndarray:
+def eps_cu2(fck: ArrayLike) -> NDArray[np.float64]:
     """Ultimate strain, parabola-rectangle diagram.
 
     EN 1992-1-1, Table 3.1: 3.5 per mille; 2.6 + 35 ((90 - fck)/100)^4 for fck >= 50.
@@ -123,7 +125,7 @@ def eps_cu2(fck: ArrayLike) -> np.ndarray:
     return np.where(_hs(f), 2.6 + 35.0 * ((90.0 - f) / 100.0) ** 4, 3.5) / 1000.0
 
 
-def n_exponent(fck: ArrayLike) -> np.ndarray:
+def n_exponent(fck: ArrayLike) -> NDArray[np.float64]:
     """Exponent n of the parabola-rectangle diagram.
 
     EN 1992-1-1, Table 3.1: 2.0; 1.4 + 23.4 ((90 - fck)/100)^4 for fck >= 50.
@@ -132,7 +134,7 @@ def n_exponent(fck: ArrayLike) -> np.ndarray:
     return np.where(_hs(f), 1.4 + 23.4 * ((90.0 - f) / 100.0) ** 4, 2.0)
 
 
-def eps_c3(fck: ArrayLike) -> np.ndarray:
+def eps_c3(fck: ArrayLike) -> NDArray[np.float64]:
     """Strain at reaching the maximum strength, bi-linear diagram.
 
     EN 1992-1-1, Table 3.1: 1.75 per mille; 1.75 + 0.55 (fck - 50)/40 for fck >= 50.
@@ -141,7 +143,7 @@ def eps_c3(fck: ArrayLike) -> np.ndarray:
     return np.where(_hs(f), 1.75 + 0.55 * (f - 50.0) / 40.0, 1.75) / 1000.0
 
 
-def eps_cu3(fck: ArrayLike) -> np.ndarray:
+def eps_cu3(fck: ArrayLike) -> NDArray[np.float64]:
     """Ultimate strain, bi-linear diagram (equal to eps_cu2).
 
     EN 1992-1-1, Table 3.1.
@@ -149,7 +151,7 @@ def eps_cu3(fck: ArrayLike) -> np.ndarray:
     return eps_cu2(fck)
 
 
-def lambda_block(fck: ArrayLike) -> np.ndarray:
+def lambda_block(fck: ArrayLike) -> NDArray[np.float64]:
     """Depth factor lambda of the rectangular stress block.
 
     EN 1992-1-1, Eqs. (3.19) and (3.20).
@@ -158,7 +160,7 @@ def lambda_block(fck: ArrayLike) -> np.ndarray:
     return np.where(f > 50.0, 0.8 - (f - 50.0) / 400.0, 0.8)
 
 
-def eta_block(fck: ArrayLike) -> np.ndarray:
+def eta_block(fck: ArrayLike) -> NDArray[np.float64]:
     """Strength factor eta of the rectangular stress block.
 
     EN 1992-1-1, Eqs. (3.21) and (3.22).
@@ -167,7 +169,7 @@ def eta_block(fck: ArrayLike) -> np.ndarray:
     return np.where(f > 50.0, 1.0 - (f - 50.0) / 200.0, 1.0)
 
 
-def fcd(fck: ArrayLike, alpha_cc: float = 1.0, gamma_c: float = 1.5) -> np.ndarray:
+def fcd(fck: ArrayLike, alpha_cc: float = 1.0, gamma_c: float = 1.5) -> NDArray[np.float64]:
     """Design compressive strength, MPa.
 
     EN 1992-1-1, Eq. (3.15): fcd = alpha_cc fck / gamma_c.
@@ -175,7 +177,7 @@ def fcd(fck: ArrayLike, alpha_cc: float = 1.0, gamma_c: float = 1.5) -> np.ndarr
     return alpha_cc * np.asarray(fck, dtype=float) / gamma_c
 
 
-def fyd(fyk: ArrayLike, gamma_s: float = 1.15) -> np.ndarray:
+def fyd(fyk: ArrayLike, gamma_s: float = 1.15) -> NDArray[np.float64]:
     """Design yield strength of reinforcement, MPa.
 
     EN 1992-1-1, 3.2.7(2) and Fig. 3.8: fyd = fyk / gamma_s.
@@ -200,7 +202,7 @@ def parse_concrete_class(text: str) -> float:
     meant = f"C{fck:g}/{expected}" if expected is not None else None
     ok = (m is not None and text.strip()[:1].upper() == "C" and m.group(2) is not None
           and expected is not None and abs(float(m.group(2)) - expected) < 1e-9)
-    if not ok:
+    if not ok or fck is None:  # fck is never None when ok
         hint = f"; did you mean {meant!r}?" if meant else ""
         msg = (f"concrete class {text!r} is not a strength class of EN 1992-1-1 Table 3.1 written in full "
                f"(e.g. 'C30/37'){hint}")
@@ -306,17 +308,26 @@ class Concrete:
 
     @property
     def lam(self) -> float:
-        """Depth factor of the rectangular stress block, Eq. (3.19)/(3.20)."""
+        """Depth factor lambda of the rectangular stress block (-).
+
+        EN 1992-1-1, Eqs. (3.19), (3.20)
+        """
         return float(lambda_block(self.fck))
 
     @property
     def eta(self) -> float:
-        """Strength factor of the rectangular stress block, Eq. (3.21)/(3.22)."""
+        """Strength factor eta of the rectangular stress block (-).
+
+        EN 1992-1-1, Eqs. (3.21), (3.22)
+        """
         return float(eta_block(self.fck))
 
     @property
     def fcd(self) -> float:
-        """Design compressive strength, Eq. (3.15), MPa."""
+        """Design compressive strength fcd = alpha_cc fck / gamma_c, MPa.
+
+        EN 1992-1-1, Eq. (3.15)
+        """
         return float(fcd(self.fck, self.alpha_cc, self.gamma_c))
 
 
@@ -375,7 +386,7 @@ class Reinforcement:
         """Design strain limit for the inclined branch, 3.2.7(2)."""
         return self.eps_ud_factor * self.eps_uk
 
-    def stress(self, eps: ArrayLike) -> np.ndarray:
+    def stress(self, eps: ArrayLike) -> NDArray[np.float64]:
         """Design stress (MPa) at strain ``eps``; compression positive.
 
         EN 1992-1-1, 3.2.7(2), Fig. 3.8 (horizontal or inclined top branch).
@@ -399,7 +410,7 @@ class Reinforcement:
         return np.inf if self.branch is TopBranch.HORIZONTAL else self.eps_ud
 
 
-def steel_stress(eps: np.ndarray, fyd_: ArrayLike, Es: ArrayLike, slope: ArrayLike) -> np.ndarray:
+def steel_stress(eps: np.ndarray, fyd_: ArrayLike, Es: ArrayLike, slope: ArrayLike) -> NDArray[np.float64]:
     """Bilinear steel design stress, MPa; broadcasts over all arguments.
 
     EN 1992-1-1, 3.2.7(2), Fig. 3.8.
@@ -407,4 +418,4 @@ def steel_stress(eps: np.ndarray, fyd_: ArrayLike, Es: ArrayLike, slope: ArrayLi
     eps_yd = np.asarray(fyd_) / Es
     a = np.abs(eps)
     sig = np.where(a <= eps_yd, Es * a, fyd_ + slope * (a - eps_yd))
-    return np.copysign(sig, eps)
+    return np.copysign(sig, eps)  # type: ignore[no-any-return]  # numpy stubs: ufunc of an unparametrised ndarray is Any

@@ -26,43 +26,53 @@ What one check covers (EN 1992-1-1 unless stated):
    method A) and the lap length of the starter bars (8.4, 8.7.3).
 
 Units: N, mm, MPa, N mm. Compression positive. End moments follow the
-moment-diagram convention of :mod:`design.slenderness` (same sign at both
-ends = single curvature).
+moment-diagram convention of :mod:`design.second_order.slenderness` (same sign
+at both ends = single curvature).
+
+The per-section arrays come from :mod:`design.section_data`; the checks after
+the design moments (creep ratio, shear, stresses, detailing, cover, fire) are
+the phases of :mod:`design.member_checks`.
 """
 
 from __future__ import annotations
 
-import dataclasses
 import functools
-from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from enum import StrEnum
-from typing import Literal
+from typing import Any, Literal, overload
 
 import numpy as np
 from numpy.typing import ArrayLike
 
-from design import biaxial, cover, creep, detailing, fire, laps, serviceability, shear, slenderness
-from design.biaxial import SectionShape
+from design import detailing, laps
 from design.cover import Exposure, ExposureClass, parse_exposure
 from design.creep import CreepSettings
 from design.fire import MU_FI_DEFAULT, FireRating
-from design.materials import Ecm, fctm
+from design.member_checks import (
+    cover_checks,
+    detailing_checks,
+    effective_creep,
+    fire_check,
+    link_spacing,
+    link_spacing_checks,
+    shear_checks,
+    stress_checks,
+)
 from design.params import EN_RECOMMENDED, NationalParameters
 from design.resistance import DesignSection, SectionBatch
-from design.results import CheckKind, CheckResult
-from design.sections import CircSection, RectSection
-from design.slenderness import ImperfectionMethod
+from design.results import CheckColumn, CheckKind, CheckResult
+from design.second_order import biaxial, imperfections, nominal_curvature, slenderness
+from design.second_order.biaxial import SectionShape
+from design.second_order.imperfections import ImperfectionMethod
+from design.section_data import SectionData
 
 __all__ = [
     "MinEccentricity",
     "BiaxialMethod",
     "CheckSettings",
     "ColumnActions",
-    "CheckColumn",
     "MemberChecks",
     "ColumnCheck",
-    "SectionData",
     "check_members",
     "check_column",
     "SLENDERNESS_CAP",
@@ -112,7 +122,7 @@ class CheckSettings:
         curvature_c: factor c of Eq. (5.33); None (default): from the shape of
             the first-order moment, 8 where it is constant and 10 where it
             changes sign, linear between (5.8.8.2(4), see
-            :func:`design.slenderness.c_curvature`); a number in [8, 12] fixes it.
+            :func:`design.second_order.nominal_curvature.c_curvature`); a number in [8, 12] fixes it.
     """
 
     imperfection: ImperfectionMethod = ImperfectionMethod.INCLINATION
@@ -218,185 +228,6 @@ class ColumnActions:
 
 
 @dataclass
-class SectionData:
-    """Per-section geometry and material arrays of a batch (struct of arrays)."""
-
-    batch: SectionBatch
-    circ: np.ndarray
-    b: np.ndarray
-    h: np.ndarray
-    Ac: np.ndarray
-    As: np.ndarray
-    iy: np.ndarray
-    iz: np.ndarray
-    dy: np.ndarray
-    dz: np.ndarray
-    fck: np.ndarray
-    fcd: np.ndarray
-    fyk: np.ndarray
-    fyd: np.ndarray
-    Es: np.ndarray
-    cover: np.ndarray
-    link: np.ndarray
-    dia_max: np.ndarray
-    dia_min: np.ndarray
-    n_bars: np.ndarray
-    min_gap: np.ndarray
-    extra_ties: np.ndarray
-    a_fire_min: np.ndarray  # smallest axis distance of any bar to its nearest face, mm (EN 1992-1-2, 5.2)
-    a_fire_mean: np.ndarray  # area-weighted mean axis distance am, mm (EN 1992-1-2, Eq. (5.5))
-    Asl_y: np.ndarray  # bars of the tension face for bending about y (shear along z), mm2 (6.2.2(1))
-    Asl_z: np.ndarray  # bars of the tension face for bending about z (shear along y), mm2
-    dv_y: np.ndarray  # effective depth to that face's bars, shear along z, mm
-    dv_z: np.ndarray  # effective depth to that face's bars, shear along y, mm
-    fctm: np.ndarray  # mean tensile strength, MPa (Table 3.1)
-    tr: dict  # uncracked transformed section, short-term alpha_e = Es/Ecm (7.2): A, Sy, Sz, Iyy, Izz, Iyz
-
-    @classmethod
-    def of(cls, batch: SectionBatch) -> SectionData:
-        """Collect the arrays of ``batch`` (one pass over its sections)."""
-        ds = batch.designs
-        secs = [d.section for d in ds]
-        circ = np.array([isinstance(s, CircSection) for s in secs])
-        b = np.array([s.b for s in secs], dtype=float)
-        h = np.array([s.h for s in secs], dtype=float)
-        iy = np.where(circ, h / 4.0, h / np.sqrt(12.0))
-        iz = np.where(circ, b / 4.0, b / np.sqrt(12.0))
-        ties = [extra_ties(s) for s in secs]
-        axis = [_axis_distances(s) for s in secs]
-        tension = np.array([_tension_face(s) for s in secs], dtype=float).reshape(-1, 4)
-        trs = [_transformed(d) for d in ds]
-        return cls(
-            batch=batch, circ=circ, b=b, h=h,
-            Ac=np.array([s.Ac for s in secs]), As=np.array([s.As for s in secs]),
-            iy=iy, iz=iz,
-            dy=np.array([s.effective_depth("y") for s in secs]),
-            dz=np.array([s.effective_depth("z") for s in secs]),
-            fck=np.array([d.concrete.fck for d in ds]), fcd=np.array([d.concrete.fcd for d in ds]),
-            fyk=np.array([d.steel.fyk for d in ds]), fyd=np.array([d.steel.fyd for d in ds]),
-            Es=np.array([d.steel.Es for d in ds]),
-            cover=np.array([s.cover for s in secs]), link=np.array([s.link for s in secs]),
-            dia_max=np.array([s.bars.max_dia for s in secs]),
-            dia_min=np.array([s.bars.min_dia for s in secs]),
-            n_bars=np.array([s.bars.count for s in secs]),
-            min_gap=np.array([float(np.min(s.clear_spacings())) for s in secs]),
-            extra_ties=np.array(ties),
-            a_fire_min=np.array([a for a, _ in axis]), a_fire_mean=np.array([m for _, m in axis]),
-            Asl_y=tension[:, 0], Asl_z=tension[:, 1], dv_y=tension[:, 2], dv_z=tension[:, 3],
-            fctm=np.array([float(fctm(d.concrete.fck)) for d in ds]),
-            tr={k: np.array([float(getattr(x, k)) for x in trs]) for k in ("A", "Sy", "Sz", "Iyy", "Izz", "Iyz")},
-        )
-
-    def transformed(self, idx: np.ndarray) -> serviceability.TransformedSection:
-        """The uncracked transformed sections of pairs ``idx``."""
-        return serviceability.TransformedSection(
-            **{k: v[idx] for k, v in self.tr.items()}, b=self.b[idx], h=self.h[idx], circular=self.circ[idx])
-
-
-def _transformed(design: DesignSection) -> serviceability.TransformedSection:
-    """Uncracked transformed section with the short-term modular ratio Es/Ecm (EN 1992-1-1, 7.2)."""
-    s = design.section
-    y, z, dia = s.bar_coords()
-    ae = serviceability.alpha_e(float(Ecm(design.concrete.fck)), 0.0, design.steel.Es)
-    area = np.pi * dia**2 / 4.0
-    if isinstance(s, CircSection):
-        return serviceability.transformed_circle(s.diameter, y, z, area, ae)
-    return serviceability.transformed_rectangle(s.b, s.h, y, z, area, ae)
-
-
-def _tension_face(section: RectSection | CircSection) -> tuple[float, float, float, float]:
-    """(Asl about y, Asl about z, d about y, d about z) for the shear resistance VRd,c, mm2 and mm.
-
-    EN 1992-1-1, 6.2.2(1): Asl is the tensile reinforcement. For bending about y
-    the tension face is a b-face (bars at the extreme z); about z an h-face.
-    A circle takes the bars beyond half the bar radius on the tension side
-    (common practice, about a third of the bars) and d to the extreme bar.
-    """
-    y, z, dia = section.bar_coords()
-    area = np.pi * dia**2 / 4.0
-    if isinstance(section, CircSection):
-        r = section.bar_radius
-        asl = float(area[z <= -0.5 * r + 1e-6].sum())
-        d = section.diameter / 2.0 + r
-        return asl, asl, d, d
-    on_y = np.isclose(z, z.min(), atol=20.0)
-    on_z = np.isclose(y, y.min(), atol=20.0)
-    return (float(area[on_y].sum()), float(area[on_z].sum()),
-            section.h / 2.0 + float(np.abs(z[on_y]).max()), section.b / 2.0 + float(np.abs(y[on_z]).max()))
-
-
-def _axis_distances(section: RectSection | CircSection) -> tuple[float, float]:
-    """Smallest and area-weighted mean axis distance of the bars to the nearest face, mm.
-
-    EN 1992-1-2, 5.2(1) and Eq. (5.5): a bar's axis distance is measured from
-    its centre to the nearest exposed surface (all faces exposed).
-    """
-    y, z, dia = section.bar_coords()
-    if isinstance(section, CircSection):
-        a = section.diameter / 2.0 - np.hypot(y, z)
-    else:
-        a = np.minimum(section.b / 2.0 - np.abs(y), section.h / 2.0 - np.abs(z))
-    return float(a.min()), fire.average_axis_distance(np.pi * dia**2 / 4.0, a)
-
-
-def extra_ties(section: RectSection | CircSection) -> int:
-    """Extra ties a section needs so that every bar is within 150 mm of a restrained bar (9.5.3(6))."""
-    if isinstance(section, CircSection):
-        return 0  # a circular link restrains every bar
-    y, z, _ = section.bar_coords()
-    return _extra_ties_rect(y, z)
-
-
-def _extra_ties_rect(y: np.ndarray, z: np.ndarray) -> int:
-    """Extra ties so that every bar lies within 150 mm of a restrained bar (9.5.3(6))."""
-    total = 0
-    for along, across in ((y, z), (z, y)):
-        for side in (across.max(), across.min()):
-            on_face = np.isclose(across, side, atol=20.0)
-            total += _face_ties(tuple(np.round(np.sort(along[on_face]), 1)))
-    return total
-
-
-@functools.lru_cache(maxsize=4096)
-def _face_ties(positions: tuple[float, ...]) -> int:
-    return int(detailing.extra_ties_needed(np.array(positions)))
-
-
-@dataclass(frozen=True)
-class CheckColumn:
-    """One named check over many pairs (arrays), with its clause."""
-
-    name: str
-    clause: str
-    unit: str
-    demand: np.ndarray
-    capacity: np.ndarray
-    applicable: np.ndarray
-    note: str | np.ndarray | Callable[[int], str] = ""
-    blocking: bool = True  # where the method does not apply: fail (True) or flag as not verified (False)
-    kind: CheckKind = CheckKind.RESISTANCE
-
-    @property
-    def utilisation(self) -> np.ndarray:
-        """Demand / capacity per pair; where the method does not apply: inf if blocking, else 0 (flagged)."""
-        with np.errstate(divide="ignore", invalid="ignore"):
-            u = np.where(self.capacity > 0, self.demand / np.where(self.capacity > 0, self.capacity, 1.0),
-                         np.where(self.demand > 0, np.inf, 0.0))
-        return np.where(self.applicable, u, np.inf if self.blocking else 0.0)
-
-    def result(self, i: int) -> CheckResult:
-        """The check of pair ``i`` as a :class:`CheckResult`."""
-        if isinstance(self.note, str):
-            note = self.note
-        elif callable(self.note):
-            note = self.note(i)
-        else:
-            note = str(self.note[i])
-        return CheckResult(self.name, self.clause, float(self.demand[i]), float(self.capacity[i]),
-                           self.unit, note, bool(self.applicable[i]), kind=self.kind)
-
-
-@dataclass
 class MemberChecks:
     """Results of :func:`check_members` (struct of arrays, one row per pair)."""
 
@@ -417,7 +248,7 @@ class MemberChecks:
         governs and its ratio NEd/NRd is reported (the bending checks have no resistance left).
         """
         m = self.utilisation_matrix
-        return m[np.arange(m.shape[0]), self.governing]
+        return m[np.arange(m.shape[0]), self.governing]  # type: ignore[no-any-return]  # numpy stubs: fancy indexing is Any
 
     @functools.cached_property
     def governing(self) -> np.ndarray:
@@ -439,7 +270,7 @@ class MemberChecks:
         gov = np.asarray(cols)[sub.argmax(axis=1)]
         if kind is CheckKind.RESISTANCE:
             gov = np.where(self.checks[0].utilisation > 1.0, 0, gov)  # axial first, as in ``governing``
-        return gov
+        return gov  # type: ignore[no-any-return]  # numpy stubs: fancy indexing is Any
 
     @functools.cached_property
     def governing_resistance(self) -> np.ndarray:
@@ -450,7 +281,7 @@ class MemberChecks:
     def resistance_utilisation(self) -> np.ndarray:
         """Utilisation of the governing resistance check per pair."""
         m = self.utilisation_matrix
-        return m[np.arange(m.shape[0]), self.governing_resistance]
+        return m[np.arange(m.shape[0]), self.governing_resistance]  # type: ignore[no-any-return]  # numpy stubs: fancy indexing is Any
 
     @property
     def ok(self) -> np.ndarray:
@@ -506,14 +337,21 @@ class ColumnCheck:
         raise KeyError(msg)
 
 
+@overload
+def _b(x: None, n: int) -> None: ...
+@overload
+def _b(x: ArrayLike, n: int) -> np.ndarray: ...
 def _b(x: ArrayLike | None, n: int) -> np.ndarray | None:
+    """``x`` as a float array of ``n`` pairs (a copy); None stays None."""
     return None if x is None else np.broadcast_to(np.asarray(x, dtype=float), (n,)).copy()
 
 
 def _axis_moments(
-    NEd, M_top, M_bot, l0, i, h_e0, d, fck, fyd, Es, phi_ef, n, omega, ei_, with_imp,
-    with_e0, use_rm, braced, c_fixed, params,
-):
+    NEd: np.ndarray, M_top: np.ndarray, M_bot: np.ndarray, l0: np.ndarray, i: np.ndarray, h_e0: np.ndarray,
+    d: np.ndarray, fck: np.ndarray, fyd: np.ndarray, Es: np.ndarray, phi_ef: np.ndarray, n: np.ndarray,
+    omega: np.ndarray, ei_: np.ndarray, with_imp: bool, with_e0: bool, use_rm: np.ndarray, braced: np.ndarray,
+    c_fixed: float | None, params: NationalParameters,
+) -> dict[str, np.ndarray]:
     """Design moment about one axis for one imperfection case (arrays; N, mm).
 
     EN 1992-1-1, 5.8.8 with 5.8.3.1, 5.2(7) and 6.1(4).
@@ -526,7 +364,7 @@ def _axis_moments(
     MEd = M02 + M2 (the second-order moment adds at the end).
     """
     lam = slenderness.slenderness(l0, i)
-    M01, M02 = slenderness.first_order_end_moments(M_top, M_bot, NEd, ei_, with_imp)
+    M01, M02 = nominal_curvature.first_order_end_moments(M_top, M_bot, NEd, ei_, with_imp)
     with np.errstate(divide="ignore", invalid="ignore"):
         rm_total = np.where(M02 > 0, M01 / np.where(M02 > 0, M02, 1.0), 1.0)
     m_imp = np.where(with_imp, np.maximum(NEd, 0.0) * ei_, 0.0)
@@ -535,26 +373,26 @@ def _axis_moments(
     rm = np.where(predominantly_imp, 1.0, np.clip(rm_total, -1.0, 1.0))
     rm = np.where(use_rm & braced, rm, 1.0)  # C = 0.7 where rm may not be used
     lim = slenderness.lambda_lim(n, phi_ef=phi_ef, omega=omega, r_m=rm, params=params)
-    e0 = np.where(with_e0, slenderness.e0_min(h_e0), 0.0)
-    kr = slenderness.Kr(np.maximum(n, 0.0), omega)
-    kphi = slenderness.Kphi(phi_ef, fck, lam)
-    curv = slenderness.inv_r(kr, kphi, slenderness.inv_r0(slenderness.eps_yd(fyd, Es), d))
-    c = slenderness.c_curvature(rm_total) if c_fixed is None else np.full_like(NEd, c_fixed)
-    e2 = slenderness.e2(curv, l0, c)
+    e0 = np.where(with_e0, imperfections.e0_min(h_e0), 0.0)
+    kr = nominal_curvature.Kr(np.maximum(n, 0.0), omega)
+    kphi = nominal_curvature.Kphi(phi_ef, fck, lam)
+    curv = nominal_curvature.inv_r(kr, kphi, nominal_curvature.inv_r0(nominal_curvature.eps_yd(fyd, Es), d))
+    c = nominal_curvature.c_curvature(rm_total) if c_fixed is None else np.full_like(NEd, c_fixed)
+    e2 = nominal_curvature.e2(curv, l0, c)
     slender = (lam > lim.lambda_lim) & (NEd > 0)
-    m2 = np.where(slender, slenderness.M2(NEd, e2), 0.0)
+    m2 = np.where(slender, nominal_curvature.M2(NEd, e2), 0.0)
     end_moment = np.maximum(M02 + m2, np.maximum(NEd, 0.0) * e0)  # unbraced: MEd = M02 + M2
     MEd = np.where(
         slender,
-        np.where(braced, slenderness.design_moment_second_order(NEd, M01, M02, m2, e0), end_moment),
-        slenderness.design_moment_first_order(NEd, M02, e0),
+        np.where(braced, nominal_curvature.design_moment_second_order(NEd, M01, M02, m2, e0), end_moment),
+        nominal_curvature.design_moment_first_order(NEd, M02, e0),
     )
     ones = np.ones_like(NEd)
     return {
         "lambda": lam, "lambda_lim": lim.lambda_lim, "A": lim.A * ones,
         "B": lim.B * ones, "C": lim.C * ones, "rm": rm * ones, "rm_imperfection": predominantly_imp * ones,
         "M01": M01, "M02": M02,
-        "M0e": np.abs(slenderness.M0e(M01, M02)), "e0": slenderness.e0_min(h_e0),
+        "M0e": np.abs(nominal_curvature.M0e(M01, M02)), "e0": imperfections.e0_min(h_e0),
         "Kr": kr, "Kphi": kphi, "inv_r": curv, "c": c * ones, "e2": np.where(slender, e2, 0.0), "M2": m2,
         "MEd": MEd, "slender": slender,
     }
@@ -606,11 +444,12 @@ def check_members(
 
     n = NEd / (g["Ac"] * g["fcd"])
     omega = g["As"] * g["fyd"] / (g["Ac"] * g["fcd"])
-    ei_y = slenderness.ei(l0y, settings.imperfection, l=l_clear, params=params)
-    ei_z = slenderness.ei(l0z, settings.imperfection, l=l_clear, params=params)
+    ei_y = imperfections.ei(l0y, settings.imperfection, l=l_clear, params=params)
+    ei_z = imperfections.ei(l0z, settings.imperfection, l=l_clear, params=params)
     use_rm = np.full(n_pairs, bool(actions.moments_from_analysis))
     both = settings.min_eccentricity is MinEccentricity.BOTH_AXES
-    phi_ef, creep_values = _creep(g, data.transformed(idx), NEd, moments, actions, settings, n_pairs)
+    phi_ef, creep_values = effective_creep(g, data.transformed(idx), NEd, moments, _b(actions.phi_ef, n_pairs),
+                                           _b(actions.M0Eqp_ratio, n_pairs), settings.creep)
 
     # Resistances at NEd (independent of the imperfection case).
     NRd = sb.NRd()[idx]
@@ -631,7 +470,7 @@ def check_members(
 
     common = dict(NEd=NEd, fck=g["fck"], fyd=g["fyd"], Es=g["Es"], phi_ef=phi_ef, n=n, omega=omega,
                   braced=braced, use_rm=use_rm, c_fixed=settings.curvature_c, params=params)
-    cases = []
+    cases: list[dict[str, Any]] = []
     for imp_on_y in (True, False):
         ay = _axis_moments(M_top=moments["My_top"], M_bot=moments["My_bot"], l0=l0y, i=g["iy"], h_e0=g["h"],
                            d=g["dy"], ei_=ei_y, with_imp=imp_on_y, with_e0=imp_on_y or both, **common)
@@ -653,10 +492,10 @@ def check_members(
                       "separate": separate, "inter": inter, "worst": worst})
     pick_y = cases[0]["worst"] >= cases[1]["worst"]
 
-    def sel(key, sub=None):
+    def sel(key: str, sub: str | None = None) -> np.ndarray:
         c0 = cases[0][key] if sub is None else cases[0][sub][key]
         c1 = cases[1][key] if sub is None else cases[1][sub][key]
-        return np.where(pick_y, c0, c1)
+        return np.where(pick_y, c0, c1)  # type: ignore[no-any-return]  # numpy stubs: np.where of Any values is Any
 
     MEdy, MEdz = sel("MEd", "y"), sel("MEd", "z")
     separate = sel("separate")
@@ -706,21 +545,24 @@ def check_members(
     checks.append(CheckColumn("slenderness within range of method", "EN 1992-1-1, 5.8.8 (limit: common practice)",
                               "-", lam_max, np.full(n_pairs, settings.slenderness_cap), ones,
                               f"lambda above {settings.slenderness_cap:g} is flagged"))
-    s_link, s_zone = _link_spacing(g, actions, n_pairs, params)
+    s_link, s_zone = link_spacing(g, _b(actions.s_link, n_pairs), _b(actions.s_link_zone, n_pairs), params)
     values["s_link"], values["s_link_zone"] = s_link, s_zone
-    checks += _shear_checks(g, NEd, moments, l0y, l0z, l_clear, braced, s_link, actions, values, params)
-    checks += [dataclasses.replace(c, kind=CheckKind.DETAILING) for c in _detailing_checks(g, NEd, settings, params,
-                                                                             _b(actions.As_below, n_pairs))]
+    checks += shear_checks(g, NEd, moments, l0y, l0z, l_clear, braced, s_link, _b(actions.V_Ed, n_pairs), values,
+                           params)
+    checks += detailing_checks(g, NEd, settings.lapped, settings.aggregate, params, _b(actions.As_below, n_pairs))
     if actions.s_link is not None or actions.s_link_zone is not None:
         # derived spacings meet 9.5.3(3), (4) by construction; given ones are checked
-        checks += _link_spacing_checks(g, s_link, s_zone, params)
+        checks += link_spacing_checks(g, s_link, s_zone, params)
     if settings.exposure is not None:
-        checks += _cover_checks(g, settings, params)
-        checks += _stress_checks(g, data.transformed(idx), NEd, moments, actions, settings, values, params)
+        exposure = parse_exposure(settings.exposure)  # already parsed in CheckSettings: the same value, typed
+        checks += cover_checks(g, exposure, settings.aggregate, settings.working_life_100y, params)
+        checks += stress_checks(g, data.transformed(idx), NEd, moments, exposure, _b(actions.char_ratio, n_pairs),
+                                values, params)
     if settings.fire is not None:
         l0_fi = _b(actions.l0_fi, n_pairs)
         values["l0_fi"] = np.maximum(l0y, l0z) if l0_fi is None else l0_fi
-        checks.append(dataclasses.replace(_fire_check(g, NEd, values, settings, params), kind=CheckKind.FIRE))
+        checks.append(fire_check(g, NEd, values, settings.fire, settings.mu_fi,
+                                 settings.fire_outside_method, params))
 
     # Quantities that feed the schedule (not pass/fail).
     values["lap_length"] = laps.lap_length(g["dia_max"], g["fck"], g["fyk"], params=params)
@@ -730,252 +572,10 @@ def check_members(
     return MemberChecks(idx=idx, checks=checks, values=values)
 
 
-def _frame_moments(moments: dict) -> tuple[np.ndarray, np.ndarray]:
-    """The larger first-order end moment about y and about z (magnitudes), N mm."""
-    return (np.maximum(np.abs(moments["My_top"]), np.abs(moments["My_bot"])),
-            np.maximum(np.abs(moments["Mz_top"]), np.abs(moments["Mz_bot"])))
-
-
-def _creep(g: dict, tr: serviceability.TransformedSection, NEd: np.ndarray, moments: dict,
-           actions: ColumnActions, settings: CheckSettings, n_pairs: int):
-    """Effective creep ratio per pair and the values that explain it.
-
-    EN 1992-1-1, 5.8.4 (Eq. (5.19)), Annex B, and 3.1.4(4): where the
-    quasi-permanent compressive stress exceeds 0.45 fck at loading, creep is
-    non-linear and phi(inf, t0) is raised by Eq. (3.7). The stress is that of
-    the uncracked transformed section under the design actions scaled by
-    M0Eqp/M0Ed (short-term modular ratio: on the safe side for the concrete).
-    """
-    perimeter = np.where(g["circ"], creep.perimeter_circle(g["b"]), creep.perimeter_rectangle(g["b"], g["h"]))
-    h0 = creep.notional_size(g["Ac"], perimeter)
-    phi_lin = creep.phi_inf_section(g["Ac"], perimeter, g["fck"] + 8.0, settings.creep)  # fcm, Table 3.1
-    given = actions.phi_ef is not None
-    ratio_given = actions.M0Eqp_ratio is not None
-    ratio = _b(actions.M0Eqp_ratio, n_pairs) if ratio_given else np.ones(n_pairs)
-    my, mz = _frame_moments(moments)
-    stress = serviceability.sigma_c_uncracked(tr, np.maximum(NEd, 0.0) * ratio, my * ratio, mz * ratio, g["fctm"])
-    k_sigma = np.maximum(stress.sigma_c_max, 0.0) / g["fck"]
-    phi_inf = creep.phi_nonlinear(phi_lin, k_sigma)
-    if given:
-        phi_ef = _b(actions.phi_ef, n_pairs)
-        source = "given"
-    else:
-        phi_ef = creep.phi_ef(phi_inf, ratio)
-        source = ("Annex B, M0Eqp/M0Ed from the quasi-permanent and design combinations" if ratio_given
-                  else "Annex B, M0Eqp/M0Ed not given: 1.0 taken (upper bound)")
-    return phi_ef, {
-        "phi_ef": phi_ef, "phi_inf": phi_inf, "phi_inf_linear": phi_lin, "h0": h0, "M0Eqp_ratio": ratio,
-        "sigma_c_qp": stress.sigma_c_max, "k_sigma_qp": k_sigma, "creep_nonlinear": k_sigma > creep.K_SIGMA_LINEAR,
-        "phi_ef_source": np.full(n_pairs, source), "creep_conditions": np.full(n_pairs, settings.creep.describe()),
-    }
-
-
-def _stress_checks(g: dict, tr: serviceability.TransformedSection, NEd: np.ndarray, moments: dict,
-                   actions: ColumnActions, settings: CheckSettings, values: dict,
-                   params: NationalParameters) -> list[CheckColumn]:
-    """Compressive stress under the characteristic combination, k1 fck in XD, XF, XS (EN 1992-1-1, 7.2(2)).
-
-    Uncracked transformed section (short-term modular ratio) under the design actions times
-    ``char_ratio`` (N and the larger first-order end moments; 1.0 when not given, on the safe side).
-    Where the section cracks under those actions the uncracked stress is not valid and the check is
-    flagged as not verified (a cracked-section stress is not computed here).
-    """
-    if settings.exposure is None or not serviceability.needs_characteristic_limit(settings.exposure):
-        return []
-    n_pairs = len(NEd)
-    given = actions.char_ratio is not None
-    ratio = _b(actions.char_ratio, n_pairs) if given else np.ones(n_pairs)
-    my, mz = _frame_moments(moments)
-    s = serviceability.sigma_c_uncracked(tr, np.maximum(NEd, 0.0) * ratio, my * ratio, mz * ratio, g["fctm"])
-    values["sigma_c_char"] = s.sigma_c_max
-    limit = serviceability.sigma_c_limit_characteristic(g["fck"], params)
-    basis = "characteristic actions" if given else "design actions (characteristic not given)"
-
-    def note(i: int) -> str:
-        if s.cracked[i]:
-            return (f"section cracked under the {basis}: uncracked stress not valid, "
-                    "not verified (cracked-section stress not computed)")
-        return f"uncracked transformed section under the {basis}, {settings.exposure.name}"
-
-    return [CheckColumn("compressive stress, characteristic combination", "EN 1992-1-1, 7.2(2)", "MPa",
-                        np.maximum(s.sigma_c_max, 0.0), limit, ~s.cracked, note, blocking=False,
-                        kind=CheckKind.DURABILITY)]
-
-
-def _link_spacing(g: dict, actions: ColumnActions, n_pairs: int, params: NationalParameters):
-    """Link spacing provided (general, and near beams/slabs and laps), mm (9.5.3(3), (4))."""
-    b_min = np.minimum(g["b"], g["h"])
-    smax = detailing.scl_tmax(g["dia_min"], b_min, False, params)
-    szone = detailing.scl_tmax(g["dia_min"], b_min, True, params)
-    s = _b(actions.s_link, n_pairs)
-    sz = _b(actions.s_link_zone, n_pairs)
-    s = 25.0 * np.floor(smax / 25.0 + 1e-9) if s is None else s
-    sz = 25.0 * np.floor(szone / 25.0 + 1e-9) if sz is None else sz
-    if np.any(s <= 0) or np.any(sz <= 0):
-        msg = "link spacings s_link, s_link_zone must be positive (mm)"
-        raise ValueError(msg)
-    return s, sz
-
-
-def _link_spacing_checks(g: dict, s: np.ndarray, sz: np.ndarray, params: NationalParameters) -> list[CheckColumn]:
-    b_min = np.minimum(g["b"], g["h"])
-    ones = np.ones(len(s), dtype=bool)
-    return [
-        CheckColumn("link spacing", "EN 1992-1-1, 9.5.3(3)", "mm", s,
-                    detailing.scl_tmax(g["dia_min"], b_min, False, params), ones,
-                    "s <= scl,tmax = min(20 phi_min, b_min, 400 mm)", kind=CheckKind.DETAILING),
-        CheckColumn("link spacing near beams, slabs and laps", "EN 1992-1-1, 9.5.3(4)", "mm", sz,
-                    detailing.scl_tmax(g["dia_min"], b_min, True, params), ones,
-                    "s <= 0.6 scl,tmax over the larger column dimension next to a beam or slab and at laps",
-                    kind=CheckKind.DETAILING),
-    ]
-
-
-def _shear_checks(g: dict, NEd: np.ndarray, moments: dict, l0y: np.ndarray, l0z: np.ndarray,
-                  l_clear: np.ndarray | None, braced: np.ndarray, s_link: np.ndarray, actions: ColumnActions,
-                  values: dict, params: NationalParameters) -> list[CheckColumn]:
-    """Shear from the end moments in each direction against VRd,c, or the links and the strut.
-
-    EN 1992-1-1, 6.2.2(1) Eq. (6.2), 6.2.3(3) Eqs. (6.8), (6.9). VEd = (|M_top| + |M_bot|)/l plus any
-    shear given (the sum of the end moments whatever their signs: on the safe side). Where the clear
-    height is not known, l = l0 for braced members (l0 <= l) and l0/2 for unbraced ones (l0 <= 2 l).
-    The links (two legs of the link bar, at the general spacing) are checked where VEd > VRd,c.
-    """
-    n_pairs = len(NEd)
-    V_given = np.zeros(n_pairs) if actions.V_Ed is None else np.abs(_b(actions.V_Ed, n_pairs))
-    out = []
-    fywd = g["fyd"]  # links of the same steel as the bars (common practice)
-    Asw = 2.0 * np.pi * g["link"] ** 2 / 4.0
-    for along, moment, bw, dv, asl, l0 in (("z", "My", g["b"], g["dv_y"], g["Asl_y"], l0y),
-                                           ("y", "Mz", g["h"], g["dv_z"], g["Asl_z"], l0z)):
-        length = l_clear if l_clear is not None else np.where(braced, l0, 0.5 * l0)
-        VEd = shear.VEd_from_end_moments(moments[f"{moment}_top"], moments[f"{moment}_bot"], length, V_given)
-        res = shear.shear_check_arrays(VEd, bw, dv, asl, NEd, g["Ac"], g["fck"], g["fcd"], Asw, s_link, fywd,
-                                       params=params)
-        for key in ("VEd", "VRd_c", "VRd_s", "VRd_max", "cot_theta"):
-            values[f"{key}_{along}"] = getattr(res, key)
-        values[f"shear_links_needed_{along}"] = res.needs_links
-
-        def note(i: int, res=res, moment=moment) -> str:
-            if not res.needs_links[i]:
-                return (f"VEd = (|{moment},top| + |{moment},bot|)/l <= VRd,c = {res.VRd_c[i] / 1e3:.0f} kN: "
-                        "no shear links needed beyond those of 9.5.3")
-            return (f"VEd > VRd,c = {res.VRd_c[i] / 1e3:.0f} kN: links 2 legs @ {s_link[i]:g} mm carry it, "
-                    f"VRd,s = {res.VRd_s[i] / 1e3:.0f} kN, strut VRd,max = {res.VRd_max[i] / 1e3:.0f} kN "
-                    f"(cot theta = {res.cot_theta[i]:.2f})")
-
-        out.append(CheckColumn(f"shear along {along}", "EN 1992-1-1, 6.2.2 Eq. (6.2), 6.2.3 Eqs. (6.8), (6.9)",
-                               "kN", res.VEd / 1e3, res.capacity / 1e3, np.ones(n_pairs, dtype=bool), note))
-    return out
-
-
 def _ratio(demand: np.ndarray, capacity: np.ndarray) -> np.ndarray:
     with np.errstate(divide="ignore", invalid="ignore"):
         return np.where(capacity > 0, demand / np.where(capacity > 0, capacity, 1.0),
                         np.where(demand > 0, np.inf, 0.0))
-
-
-def _detailing_checks(g: dict, NEd: np.ndarray, settings: CheckSettings, params: NationalParameters,
-                      As_below: np.ndarray | None = None):
-    n_pairs = len(NEd)
-    ones = np.ones(n_pairs, dtype=bool)
-    as_min = detailing.As_min(np.maximum(NEd, 0.0), g["fyd"], g["Ac"], params)
-    out = [
-        CheckColumn("minimum bar diameter", "EN 1992-1-1, 9.5.2(1)", "mm",
-                    np.full(n_pairs, params.phi_min_long), g["dia_min"], ones, "phi >= phi_min"),
-        CheckColumn("minimum longitudinal reinforcement", "EN 1992-1-1, 9.5.2(2)", "mm2", as_min, g["As"], ones,
-                    "As,min = max(0.10 NEd/fyd, 0.002 Ac)"),
-        CheckColumn("maximum longitudinal reinforcement", "EN 1992-1-1, 9.5.2(3)", "mm2", g["As"],
-                    detailing.As_max(g["Ac"], False, params), ones, "As <= 0.04 Ac outside laps"),
-    ]
-    if settings.lapped:
-        below = g["As"] if As_below is None else As_below
-        note = ("bars below and this storey's bars in the lap zone: As,below + As <= 0.08 Ac "
-                + ("(bars below taken equal to this storey's; a schedule checks the real pair)"
-                   if As_below is None else "(bars below as given)"))
-        out.append(CheckColumn("maximum reinforcement at laps", "EN 1992-1-1, 9.5.2(3)", "mm2", below + g["As"],
-                               detailing.As_max(g["Ac"], True, params), ones, note))
-    n_min = np.where(g["circ"], 6.0, 4.0)
-    spacing = detailing.min_clear_spacing(g["dia_max"], settings.aggregate, params)
-    out += [
-        CheckColumn("number of bars", "EN 1992-1-1, 9.5.2(4)", "bars", n_min, g["n_bars"].astype(float), ones,
-                    "at least 4 bars (rectangular), 6 (circular)"),
-        CheckColumn("clear spacing of bars", "EN 1992-1-1, 8.2(2)", "mm", spacing, np.maximum(g["min_gap"], 0.0),
-                    ones, f"max(k1 phi, dg + k2, 20 mm), dg = {settings.aggregate:g} mm"),
-        CheckColumn("link diameter", "EN 1992-1-1, 9.5.3(1)", "mm", detailing.link_dia_min(g["dia_max"]), g["link"],
-                    ones, "max(6 mm, phi_max/4)"),
-    ]
-    return out
-
-
-def _cover_checks(g: dict, settings: CheckSettings, params: NationalParameters):
-    """Nominal cover (4.4.1) and the indicative strength class (Annex E) of the exposure."""
-    exp = settings.exposure
-    dur = cover.cmin_dur_for(exp, g["fck"], settings.working_life_100y, False, False, params)
-    req_link = cover.cnom(cover.cmin(cover.cmin_b(g["link"], settings.aggregate), dur.cmin_dur, params), params)
-    req_main = cover.cnom(cover.cmin(cover.cmin_b(g["dia_max"], settings.aggregate), dur.cmin_dur, params), params)
-    ones = np.ones(len(g["b"]), dtype=bool)
-
-    def note(i: int) -> str:
-        return f"{exp.name}: S{int(dur.s_class[i])} for {dur.governing[i]}, cmin,dur = {float(dur.cmin_dur[i]):g} mm"
-
-    strength = cover.check_indicative_strength(exp, float(np.max(g["fck"])))
-    need = cover.indicative_fck(exp)
-    return [
-        CheckColumn("nominal cover to links", "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)", "mm", req_link,
-                    g["cover"], ones, note, kind=CheckKind.COVER),
-        CheckColumn("nominal cover to main bars", "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)", "mm", req_main,
-                    g["cover"] + g["link"], ones, note, kind=CheckKind.COVER),
-        CheckColumn(strength.name, strength.clause, "MPa", np.full(len(g["b"]), need), g["fck"], ones,
-                    strength.note,
-                    kind=CheckKind.DURABILITY),
-    ]
-
-
-def _fire_check(g: dict, NEd: np.ndarray, values: dict, settings: CheckSettings, params: NationalParameters):
-    """EN 1992-1-2 Table 5.2a (method A), vectorised over pairs for one rating."""
-    rating = settings.fire
-    n_pairs = len(NEd)
-    a = g["a_fire_min"]  # each bar's own axis distance: the smallest must meet the table (5.2(15))
-    values["a_fire_min"] = a
-    values["a_fire_mean"] = g["a_fire_mean"]
-    width = np.minimum(g["b"], g["h"])
-    l0_fi = values["l0_fi"]
-    with np.errstate(divide="ignore", invalid="ignore"):
-        Npos = np.where(NEd > 0, NEd, np.inf)
-        # First-order eccentricities in fire, taken as the ULS first-order ones (imperfection excluded).
-        e_z = np.maximum(np.abs(values["M02_y"]) - values["ei_y"] * np.maximum(NEd, 0) *
-                         (values["imperfection_axis"] == "y"), 0.0) / Npos
-        e_y = np.maximum(np.abs(values["M02_z"]) - values["ei_z"] * np.maximum(NEd, 0) *
-                         (values["imperfection_axis"] == "z"), 0.0) / Npos
-    kmax = params.e_max_fire_factor
-    bad = np.stack([l0_fi > fire.L0_FI_MAX_TABLE_MM, e_z > kmax * g["h"], e_y > kmax * g["b"],
-                    g["As"] >= fire.RHO_MAX_FIRE * g["Ac"]], axis=1)
-    cond = ~bad.any(axis=1)
-    col = next(m for m in (0.2, 0.5, 0.7) if settings.mu_fi <= m + 1e-12) if settings.mu_fi <= 0.7 else None
-    options = fire.TABLE_5_2A[rating][col] if col is not None else []
-    demand = np.full(n_pairs, np.inf)
-    for bmin, amin, needs8 in options:
-        usable = (width >= bmin) & ((g["n_bars"] >= 8) | (not needs8))
-        demand = np.where(usable, np.minimum(demand, amin), demand)
-    applicable = cond & bool(options)
-
-    def reasons(i: int) -> str:
-        if not options:
-            return f"Table 5.2a gives no value for {rating.name} at mu_fi = {settings.mu_fi:g}"
-        if cond[i]:
-            if np.isfinite(demand[i]):
-                return (f"axis distance of the nearest bar a = c + phi_link + phi/2 = {a[i]:g} mm "
-                        f"(area-weighted mean am = {g['a_fire_mean'][i]:.1f} mm, Eq. (5.5)); "
-                        f"mu_fi column {col}, width {width[i]:g} mm")
-            return "section narrower than every bmin of Table 5.2a (or fewer than 8 bars)"
-        why = [f"l0,fi = {l0_fi[i]:,.0f} mm > 3000 mm", f"e = {e_z[i]:.0f} mm > {kmax:g} h",
-               f"e = {e_y[i]:.0f} mm > {kmax:g} b", "As >= 0.04 Ac"]
-        return "method A does not apply: " + "; ".join(w for w, b in zip(why, bad[i], strict=True) if b)
-
-    dem = np.where(np.isfinite(demand), demand, 1e6)
-    return CheckColumn(f"fire resistance {rating.name}", "EN 1992-1-2, 5.3.2, Table 5.2a", "mm", dem, a,
-                       applicable, reasons, blocking=settings.fire_outside_method == "fail")
 
 
 def _exact_biaxial(sb: SectionBatch, idx: np.ndarray, NEd: np.ndarray, MEdy: np.ndarray,
@@ -989,7 +589,6 @@ def _exact_biaxial(sb: SectionBatch, idx: np.ndarray, NEd: np.ndarray, MEdy: np.
     target = np.arctan2(np.abs(MEdz), np.abs(MEdy))  # angle of the demand from the y axis
     lo = np.zeros(len(idx))
     hi = np.full(len(idx), np.pi / 2)
-    my = mz = None
     for _ in range(40):
         mid = 0.5 * (lo + hi)
         # theta measured from +y: theta = pi/2 compresses +z (pure MRdy).
@@ -1012,8 +611,3 @@ def check_column(
     """The full check of one column: a view of :func:`check_members` for one pair."""
     res = check_members(SectionBatch([design]), np.array([0]), actions, settings, params)
     return res.column(0)
-
-
-def batch_of(designs: Sequence[DesignSection]) -> SectionData:
-    """SectionData for a list of designs (convenience)."""
-    return SectionData.of(SectionBatch(designs))

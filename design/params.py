@@ -14,6 +14,7 @@ from __future__ import annotations
 import dataclasses
 from dataclasses import dataclass
 from enum import Enum
+from typing import Any
 
 __all__ = [
     "NationalParameters",
@@ -204,8 +205,12 @@ def parameter_set(name: str | ParameterSet) -> NationalParameters:
     return _SETS[key]
 
 
-def with_overrides(base: NationalParameters, **overrides: float) -> NationalParameters:
-    """Return ``base`` with some fields replaced, checking the field names."""
+def with_overrides(base: NationalParameters, **overrides: Any) -> NationalParameters:
+    """Return ``base`` with some fields replaced, checking the field names.
+
+    Each value has the type of its field (most are floats; ``name`` is text and
+    ``structural_class_50y`` an integer); NationalParameters checks the values.
+    """
     names = {f.name for f in dataclasses.fields(NationalParameters)}
     for key in overrides:
         if key not in names:

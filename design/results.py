@@ -1,12 +1,20 @@
-"""Result types shared by every check in :mod:`design`."""
+"""Result types shared by every check in :mod:`design`.
+
+:class:`CheckResult` is one check of one member; :class:`CheckColumn` is one
+named check over many (cell, candidate) pairs at once, as arrays, from which
+the :class:`CheckResult` of any pair is taken.
+"""
 
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass, field
 from enum import StrEnum
 
-__all__ = ["CheckKind", "CheckResult", "governing"]
+import numpy as np
+
+__all__ = ["CheckKind", "CheckResult", "CheckColumn", "governing"]
 
 
 class CheckKind(StrEnum):
@@ -42,7 +50,7 @@ class CheckResult:
     unit: str = ""
     note: str = ""
     applicable: bool = True
-    extra: dict = field(default_factory=dict, compare=False)
+    extra: dict[str, object] = field(default_factory=dict, compare=False)
     kind: CheckKind = CheckKind.RESISTANCE
 
     @property
@@ -66,3 +74,41 @@ def governing(checks: list[CheckResult]) -> CheckResult | None:
     if not_applicable:
         return not_applicable[0]
     return max(checks, key=lambda c: c.utilisation)
+
+
+@dataclass(frozen=True)
+class CheckColumn:
+    """One named check over many pairs (arrays), with its clause.
+
+    ``demand``, ``capacity`` and ``applicable`` hold one value per pair; ``note`` is one text for
+    every pair, one text per pair, or a function of the pair index (called only for the pairs shown).
+    """
+
+    name: str
+    clause: str
+    unit: str
+    demand: np.ndarray
+    capacity: np.ndarray
+    applicable: np.ndarray
+    note: str | np.ndarray | Callable[[int], str] = ""
+    blocking: bool = True  # where the method does not apply: fail (True) or flag as not verified (False)
+    kind: CheckKind = CheckKind.RESISTANCE
+
+    @property
+    def utilisation(self) -> np.ndarray:
+        """Demand / capacity per pair; where the method does not apply: inf if blocking, else 0 (flagged)."""
+        with np.errstate(divide="ignore", invalid="ignore"):
+            u = np.where(self.capacity > 0, self.demand / np.where(self.capacity > 0, self.capacity, 1.0),
+                         np.where(self.demand > 0, np.inf, 0.0))
+        return np.where(self.applicable, u, np.inf if self.blocking else 0.0)
+
+    def result(self, i: int) -> CheckResult:
+        """The check of pair ``i`` as a :class:`CheckResult`."""
+        if isinstance(self.note, str):
+            note = self.note
+        elif callable(self.note):
+            note = self.note(i)
+        else:
+            note = str(self.note[i])
+        return CheckResult(self.name, self.clause, float(self.demand[i]), float(self.capacity[i]),
+                           self.unit, note, bool(self.applicable[i]), kind=self.kind)

@@ -20,6 +20,7 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import dataclass
+from typing import overload
 
 import numpy as np
 
@@ -43,6 +44,10 @@ __all__ = [
 STANDARD_BAR_DIAMETERS = (8, 10, 12, 16, 20, 25, 32, 40)
 
 
+@overload
+def bar_area(dia: float) -> float: ...
+@overload
+def bar_area(dia: np.ndarray) -> np.ndarray: ...
 def bar_area(dia: float | np.ndarray) -> float | np.ndarray:
     """Nominal cross-sectional area of a bar of diameter ``dia`` (mm), mm2."""
     area = np.pi * np.asarray(dia, dtype=float) ** 2 / 4.0

@@ -29,7 +29,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
-from numpy.typing import ArrayLike
+from numpy.typing import ArrayLike, NDArray
 
 from design.cover import Exposure, ExposureClass, parse_exposure
 from design.params import EN_RECOMMENDED, NationalParameters
@@ -52,7 +52,7 @@ __all__ = [
 ES_DEFAULT = 200_000.0  # EN 1992-1-1, 3.2.7(4): Es may be taken as 200 GPa
 
 
-def _arr(x: ArrayLike) -> np.ndarray:
+def _arr(x: ArrayLike) -> NDArray[np.float64]:
     return np.asarray(x, dtype=float)
 
 
@@ -61,7 +61,7 @@ def _require(ok: np.ndarray | bool, msg: Callable[[], str]) -> None:
         raise ValueError(msg())
 
 
-def Ec_eff(Ecm: ArrayLike, phi: ArrayLike) -> np.ndarray:
+def Ec_eff(Ecm: ArrayLike, phi: ArrayLike) -> NDArray[np.float64]:
     """Effective modulus of concrete for long-term loads Ec,eff = Ecm / (1 + phi), MPa.
 
     EN 1992-1-1, Eq. (7.20)
@@ -79,7 +79,7 @@ def Ec_eff(Ecm: ArrayLike, phi: ArrayLike) -> np.ndarray:
     return Ecm / (1.0 + phi)
 
 
-def alpha_e(Ecm: ArrayLike, phi: ArrayLike = 0.0, Es: ArrayLike = ES_DEFAULT) -> np.ndarray:
+def alpha_e(Ecm: ArrayLike, phi: ArrayLike = 0.0, Es: ArrayLike = ES_DEFAULT) -> NDArray[np.float64]:
     """Modular ratio alpha_e = Es / Ec,eff (-).
 
     EN 1992-1-1, 7.2, 7.3.4(2) (alpha_e = Es/Ecm) with Ec,eff of Eq. (7.20)
@@ -127,7 +127,9 @@ class TransformedSection:
     circular: np.ndarray
 
 
-def _bars(bar_y: ArrayLike, bar_z: ArrayLike, bar_area: ArrayLike, alpha_e: ArrayLike):
+def _bars(
+    bar_y: ArrayLike, bar_z: ArrayLike, bar_area: ArrayLike, alpha_e: ArrayLike
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
     """Sums over the bars of the added area (alpha_e - 1) As and its moments."""
     y, z, a = np.broadcast_arrays(_arr(bar_y), _arr(bar_z), _arr(bar_area))
     _require(a >= 0, lambda: f"bar areas must not be negative, got {a} mm2")
@@ -272,7 +274,7 @@ def sigma_c_uncracked(
 # --------------------------------------------------------------------------
 
 
-def sigma_c_limit_characteristic(fck: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> np.ndarray:
+def sigma_c_limit_characteristic(fck: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> NDArray[np.float64]:
     """Compressive stress limit k1 fck under the characteristic combination, MPa.
 
     EN 1992-1-1, 7.2(2) (exposure classes XD, XF, XS; k1 = 0.6 recommended)
@@ -285,7 +287,7 @@ def sigma_c_limit_characteristic(fck: ArrayLike, params: NationalParameters = EN
     return params.k1_stress * _arr(fck)
 
 
-def sigma_c_limit_quasi_permanent(fck: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> np.ndarray:
+def sigma_c_limit_quasi_permanent(fck: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> NDArray[np.float64]:
     """Stress k2 fck under quasi-permanent loads up to which creep is linear, MPa.
 
     EN 1992-1-1, 7.2(3) (k2 = 0.45 recommended)

@@ -20,7 +20,7 @@ Units: N, mm, MPa. Compression positive (NEd > 0, sigma_cp > 0). Every value
 function takes floats or numpy arrays and broadcasts over its numeric
 arguments.
 
-Signs of end moments follow :mod:`design.slenderness`: the two values of the
+Signs of end moments follow :mod:`design.second_order.slenderness`: the two values of the
 first-order bending-moment diagram at the ends, in the same sense (same sign
 = single curvature).
 """
@@ -31,7 +31,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
-from numpy.typing import ArrayLike
+from numpy.typing import ArrayLike, NDArray
 
 from design.params import EN_RECOMMENDED, NationalParameters
 from design.results import CheckKind, CheckResult
@@ -60,7 +60,7 @@ SIGMA_CP_CAP = 0.2  # EN 1992-1-1, 6.2.2(1): sigma_cp < 0.2 fcd
 Z_FACTOR = 0.9  # EN 1992-1-1, 6.2.3(1): z = 0.9 d may normally be used
 
 
-def _arr(x: ArrayLike) -> np.ndarray:
+def _arr(x: ArrayLike) -> NDArray[np.float64]:
     return np.asarray(x, dtype=float)
 
 
@@ -77,12 +77,12 @@ def _require(ok: np.ndarray | bool, msg: Callable[[], str]) -> None:
 
 def VEd_from_end_moments(
     M_top: ArrayLike, M_bot: ArrayLike, l: ArrayLike, V_given: ArrayLike = 0.0, conservative: bool = True
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Design shear force of a column from its end moments, N.
 
     EN 1992-1-1, 6.2.1(1) (VEd from the analysis); equilibrium of a member without transverse load.
 
-    With the moment-diagram sign convention of :mod:`design.slenderness`
+    With the moment-diagram sign convention of :mod:`design.second_order.slenderness`
     (same sign at both ends = single curvature) the shear of a member with
     end moments M_top, M_bot and no transverse load is |M_top - M_bot| / l:
     the moments add in double curvature and subtract in single curvature.
@@ -115,7 +115,7 @@ def VEd_from_end_moments(
 # --------------------------------------------------------------------------
 
 
-def k_size(d: ArrayLike) -> np.ndarray:
+def k_size(d: ArrayLike) -> NDArray[np.float64]:
     """Size factor k = min(1 + sqrt(200/d), 2.0) (-).
 
     EN 1992-1-1, 6.2.2(1), Eq. (6.2a)
@@ -129,7 +129,7 @@ def k_size(d: ArrayLike) -> np.ndarray:
     return np.minimum(1.0 + np.sqrt(200.0 / d), K_SIZE_MAX)
 
 
-def rho_l(Asl: ArrayLike, bw: ArrayLike, d: ArrayLike) -> np.ndarray:
+def rho_l(Asl: ArrayLike, bw: ArrayLike, d: ArrayLike) -> NDArray[np.float64]:
     """Longitudinal tension reinforcement ratio rho_l = min(Asl / (bw d), 0.02) (-).
 
     EN 1992-1-1, 6.2.2(1), Eq. (6.2a)
@@ -148,7 +148,7 @@ def rho_l(Asl: ArrayLike, bw: ArrayLike, d: ArrayLike) -> np.ndarray:
     return np.minimum(Asl / (bw * d), RHO_L_MAX)
 
 
-def sigma_cp(NEd: ArrayLike, Ac: ArrayLike, fcd: ArrayLike) -> np.ndarray:
+def sigma_cp(NEd: ArrayLike, Ac: ArrayLike, fcd: ArrayLike) -> NDArray[np.float64]:
     """Axial stress sigma_cp = min(NEd / Ac, 0.2 fcd), MPa (compression positive).
 
     EN 1992-1-1, 6.2.2(1), Eq. (6.2a)
@@ -168,7 +168,7 @@ def sigma_cp(NEd: ArrayLike, Ac: ArrayLike, fcd: ArrayLike) -> np.ndarray:
     return np.minimum(NEd / Ac, SIGMA_CP_CAP * fcd)
 
 
-def v_min(k: ArrayLike, fck: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> np.ndarray:
+def v_min(k: ArrayLike, fck: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> NDArray[np.float64]:
     """Minimum shear stress resistance v_min = 0.035 k^1.5 fck^0.5, MPa.
 
     EN 1992-1-1, Eq. (6.3N)
@@ -194,7 +194,7 @@ def VRd_c(
     fck: ArrayLike,
     fcd: ArrayLike,
     params: NationalParameters = EN_RECOMMENDED,
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Shear resistance of the concrete without shear reinforcement, N.
 
     EN 1992-1-1, Eqs. (6.2a) and (6.2b)
@@ -235,7 +235,7 @@ def VRd_c(
 # --------------------------------------------------------------------------
 
 
-def nu_1(fck: ArrayLike) -> np.ndarray:
+def nu_1(fck: ArrayLike) -> NDArray[np.float64]:
     """Strength reduction factor for concrete cracked in shear, nu_1 = nu = 0.6 (1 - fck/250) (-).
 
     EN 1992-1-1, Eq. (6.6N); 6.2.3(3), Note 1 (recommended nu_1 = nu)
@@ -252,7 +252,7 @@ def nu_1(fck: ArrayLike) -> np.ndarray:
     return 0.6 * (1.0 - fck / 250.0)
 
 
-def alpha_cw(sigma_cp: ArrayLike, fcd: ArrayLike, axial_compression: bool = True) -> np.ndarray:
+def alpha_cw(sigma_cp: ArrayLike, fcd: ArrayLike, axial_compression: bool = True) -> NDArray[np.float64]:
     """Coefficient for the state of stress in the compression chord alpha_cw (-).
 
     EN 1992-1-1, 6.2.3(3), Note 3, Eqs. (6.11aN), (6.11bN), (6.11cN)
@@ -294,7 +294,7 @@ def alpha_cw(sigma_cp: ArrayLike, fcd: ArrayLike, axial_compression: bool = True
     )
 
 
-def VRd_s(Asw: ArrayLike, s: ArrayLike, z: ArrayLike, fywd: ArrayLike, cot_theta: ArrayLike) -> np.ndarray:
+def VRd_s(Asw: ArrayLike, s: ArrayLike, z: ArrayLike, fywd: ArrayLike, cot_theta: ArrayLike) -> NDArray[np.float64]:
     """Shear resistance of vertical links VRd,s = (Asw / s) z fywd cot(theta), N.
 
     EN 1992-1-1, Eq. (6.8)
@@ -317,7 +317,7 @@ def VRd_s(Asw: ArrayLike, s: ArrayLike, z: ArrayLike, fywd: ArrayLike, cot_theta
 
 def VRd_max(
     bw: ArrayLike, z: ArrayLike, fcd: ArrayLike, nu1: ArrayLike, alpha_cw: ArrayLike, cot_theta: ArrayLike
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Crushing resistance of the struts VRd,max = alpha_cw bw z nu_1 fcd / (cot + tan), N.
 
     EN 1992-1-1, Eq. (6.9) (vertical links)
@@ -345,7 +345,7 @@ def cot_theta_for(
     nu1: ArrayLike,
     alpha_cw: ArrayLike,
     params: NationalParameters = EN_RECOMMENDED,
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Largest cot(theta) in [1, cot_theta_max] with VRd,max >= VEd; nan where none (-).
 
     EN 1992-1-1, Eq. (6.9) solved for cot(theta); limits 6.2.3(2), Eq. (6.7N)
@@ -379,7 +379,7 @@ def cot_theta_for(
     return np.where(disc >= 0.0, c, np.nan)
 
 
-def z_lever_arm(d: ArrayLike) -> np.ndarray:
+def z_lever_arm(d: ArrayLike) -> NDArray[np.float64]:
     """Inner lever arm for shear z = 0.9 d, mm.
 
     EN 1992-1-1, 6.2.3(1) (approximate value that may normally be used)
@@ -425,23 +425,23 @@ class ShearArrays:
     utilisation: np.ndarray
 
     @property
-    def capacity(self) -> np.ndarray:
+    def capacity(self) -> NDArray[np.float64]:
         """Governing resistance, N: VRd,c, or min(VRd,s, VRd,max) where links are needed."""
         return np.where(self.needs_links, np.minimum(self.VRd_s, self.VRd_max), self.VRd_c)
 
     @property
-    def governs(self) -> np.ndarray:
+    def governs(self) -> NDArray[np.str_]:
         """Which resistance governs each pair: "concrete", "links" or "strut"."""
         links_or_strut = np.where(self.VRd_s <= self.VRd_max, "links", "strut")
         return np.where(self.needs_links, links_or_strut, "concrete")
 
     @property
-    def ok(self) -> np.ndarray:
+    def ok(self) -> NDArray[np.bool_]:
         """True where the shear check passes."""
         return self.utilisation <= 1.0 + 1e-12
 
 
-def _ratio(demand: np.ndarray, capacity: np.ndarray) -> np.ndarray:
+def _ratio(demand: np.ndarray, capacity: np.ndarray) -> NDArray[np.float64]:
     with np.errstate(divide="ignore", invalid="ignore"):
         return np.where(capacity > 0, demand / np.where(capacity > 0, capacity, 1.0),
                         np.where(demand > 0, np.inf, 0.0))
@@ -551,7 +551,7 @@ def check_shear(
     suffix = f" ({direction})" if direction else ""
     V, vrdc, vrds, vrdmax, cot = (float(r.VEd), float(r.VRd_c), float(r.VRd_s), float(r.VRd_max),
                                   float(r.cot_theta))
-    extra = {"VRd_c": vrdc, "VRd_s": vrds, "VRd_max": vrdmax, "cot_theta": cot}
+    extra: dict[str, object] = {"VRd_c": vrdc, "VRd_s": vrds, "VRd_max": vrdmax, "cot_theta": cot}
     if not bool(r.needs_links):
         return [CheckResult(f"shear, concrete only{suffix}", "EN 1992-1-1, 6.2.2(1), Eqs. (6.2a), (6.2b)",
                             demand=V, capacity=vrdc, unit="N",

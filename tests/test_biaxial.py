@@ -1,4 +1,4 @@
-"""Tests of design.biaxial against EN 1992-1-1 5.8.9."""
+"""Tests of design.second_order.biaxial against EN 1992-1-1 5.8.9."""
 
 from __future__ import annotations
 
@@ -9,7 +9,7 @@ import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
-from design import biaxial as bx
+from design.second_order import biaxial as bx
 
 
 @pytest.mark.parametrize(

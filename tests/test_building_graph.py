@@ -14,7 +14,8 @@ from optimizer.building.graph import (
     load_order,
     supports_of,
 )
-from optimizer.building.scenario import CellId, load_scenario
+from optimizer.building.model import CellId
+from optimizer.building.scenario import load_scenario
 from optimizer.errors import InputError
 
 ROOT = Path(__file__).resolve().parent.parent

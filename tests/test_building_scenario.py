@@ -5,7 +5,8 @@ import dataclasses
 import pytest
 
 from optimizer.building.loads import Category, Combination, ImposedReduction
-from optimizer.building.scenario import CellId, Orientation, SupportKind, load_scenario, load_scenario_text
+from optimizer.building.model import CellId, Orientation, SupportKind
+from optimizer.building.scenario import load_scenario, load_scenario_text
 from optimizer.errors import InputError
 
 BASE = """

@@ -5,9 +5,11 @@ from pathlib import Path
 import pandas as pd
 import pytest
 
+from optimizer.building.actions_csv import ACTION_COLUMNS
 from optimizer.building.generate import TowerSpec, generate_tower, generate_tower_toml
-from optimizer.building.scenario import SupportKind, load_scenario
-from optimizer.building.takedown import ACTION_COLUMNS, scenario_actions, takedown
+from optimizer.building.model import SupportKind
+from optimizer.building.scenario import load_scenario
+from optimizer.building.takedown import scenario_actions, takedown
 from optimizer.cli import main
 
 ROOT = Path(__file__).resolve().parent.parent

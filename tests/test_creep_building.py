@@ -14,9 +14,10 @@ import numpy as np
 import pytest
 
 from design.creep import CementClass, CreepSettings
+from optimizer.building.actions_csv import read_actions_csv, write_actions_csv
 from optimizer.building.loads import PSI_FACTORS, Category
 from optimizer.building.scenario import load_scenario, load_scenario_text
-from optimizer.building.takedown import m0eqp_ratio, read_actions_csv, scenario_actions, takedown, write_actions_csv
+from optimizer.building.takedown import m0eqp_ratio, scenario_actions, takedown
 from optimizer.candidates.feasibility import cell_table, check_settings_for
 from optimizer.errors import InputError
 

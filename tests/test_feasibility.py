@@ -76,8 +76,8 @@ def test_matrix_agrees_with_single_column_check(small):
     util = {(int(c), int(t), int(o)): u for c, t, o, u in
             zip(fe.cand_cell, fe.cand_type, fe.cand_orient, fe.utilisation, strict=True)}
     rng = np.random.default_rng(11)
-    from design.member import SectionData
     from design.resistance import SectionBatch
+    from design.section_data import SectionData
 
     data = SectionData.of(SectionBatch(cat.designs))
     for _ in range(250):

@@ -8,18 +8,13 @@ import numpy as np
 import pytest
 
 from optimizer.schedule.check import check_schedule
+from optimizer.schedule.compact import build_model, reduce_problem
 from optimizer.schedule.diagnose import diagnose
-from optimizer.schedule.heuristic import (
-    baseline,
-    cellwise_lower_bound,
-    figures,
-    rationalise,
-    stack_chains,
-    stack_dp,
-    stack_shortest_path,
-)
-from optimizer.schedule.ip import build_model, lower_bound_premium, pareto, reduce_problem, solve
+from optimizer.schedule.heuristic import baseline, cellwise_lower_bound, figures, rationalise
+from optimizer.schedule.prepared import stack_chains
 from optimizer.schedule.problem import Objective, Rules, ScheduleProblem, StepRule, TypeTable
+from optimizer.schedule.solve import SolveOptions, lower_bound_premium, pareto, solve
+from optimizer.schedule.stackpaths import stack_dp, stack_shortest_path
 from optimizer.schedule.synthetic import SyntheticSpec, synthetic_problem, tower
 
 
@@ -87,7 +82,7 @@ def test_stack_optimum_is_exact_without_coupling() -> None:
     p = synthetic_problem(SyntheticSpec(n_stacks=3, n_levels=4, n_types=8, seed=5), rules=Rules(min_run=2))
     s = solve(p)
     assert s.status == "optimal" and s.gap == pytest.approx(0.0, abs=1e-9)
-    mip = solve(p, exact_decomposition=False, gap_rel=0.0)
+    mip = solve(p, SolveOptions(exact_decomposition=False, gap_rel=0.0))
     assert mip.objective == pytest.approx(s.objective)
     assert check_schedule(p, s) == []
 
@@ -96,7 +91,7 @@ def test_lower_bound_baseline_and_premium() -> None:
     p = synthetic_problem(SyntheticSpec(n_stacks=4, n_levels=8, n_types=20, seed=3), rules=Rules(max_types=3))
     lb = cellwise_lower_bound(p)
     base = baseline(p)
-    best = solve(p, gap_rel=0.0)
+    best = solve(p, SolveOptions(gap_rel=0.0))
     assert base is not None and check_schedule(p, base) == []
     assert lb.value <= best.objective + 1e-9
     assert best.objective <= figures(p, base.cand).objective + 1e-9 or figures(p, base.cand).n_types > 3
@@ -112,7 +107,7 @@ def test_rationalise_meets_the_cap() -> None:
     assert h is not None
     assert figures(p, h.cand).n_types <= 3
     assert check_schedule(p, h) == []
-    assert solve(p, gap_rel=0.0).objective <= h.objective + 1e-9
+    assert solve(p, SolveOptions(gap_rel=0.0)).objective <= h.objective + 1e-9
 
 
 # ----------------------------------------------------------------------------- integer program
@@ -121,7 +116,8 @@ def test_rationalise_meets_the_cap() -> None:
 def test_backends_and_solvers_agree() -> None:
     p = synthetic_problem(SyntheticSpec(n_stacks=3, n_levels=5, n_types=10, seed=2, rectangles=True,
                                         free_fraction=0.5), rules=Rules(max_types=3, min_run=2, price_per_section=4))
-    values = {(solver, backend): solve(p, solver=solver, backend=backend, gap_rel=0.0, reduce=False).objective
+    values = {(solver, backend): solve(p, SolveOptions(solver=solver, backend=backend, gap_rel=0.0,
+                                                       reduce=False)).objective
               for solver, backend in (("highs", "highspy"), ("highs", "pulp"), ("cbc", "pulp"))}
     assert max(values.values()) == pytest.approx(min(values.values()))
 
@@ -129,8 +125,8 @@ def test_backends_and_solvers_agree() -> None:
 def test_reductions_keep_the_optimum() -> None:
     p = synthetic_problem(SyntheticSpec(n_stacks=6, n_levels=5, n_types=12, seed=4, symmetry=True),
                           rules=Rules(max_types=3))
-    full = solve(p, reduce=False, gap_rel=0.0)
-    reduced = solve(p, reduce=True, gap_rel=0.0)
+    full = solve(p, SolveOptions(reduce=False, gap_rel=0.0))
+    reduced = solve(p, SolveOptions(reduce=True, gap_rel=0.0))
     assert reduced.objective == pytest.approx(full.objective)
     red = reduce_problem(p, full.cand)
     assert red.keep[full.cand[red.mult > 0]].all()
@@ -148,17 +144,17 @@ def test_model_names_are_readable_and_unique() -> None:
     assert len(variables.x) == len(p.cand_cell)
 
 
-@pytest.mark.parametrize("method", ["compact", "paths"])
-def test_time_limited_result_is_not_called_optimal(method: str) -> None:
+@pytest.mark.parametrize("formulation", ["compact", "paths"])
+def test_time_limited_result_is_not_called_optimal(formulation: str) -> None:
     """A result is "optimal" only with a proven zero gap; anything stopped early says so.
 
     (The path formulation may well prove this 300-cell problem within 0.5 s; the compact model cannot.)
     """
     p = tower(300, 150, rules=Rules(max_types=4, min_run=2))
-    s = solve(p, time_limit_s=0.5, gap_rel=0.0, method=method)
+    s = solve(p, SolveOptions(time_limit_s=0.5, gap_rel=0.0, formulation=formulation))
     assert s.bound <= s.objective
     if s.status == "optimal":
-        assert method == "paths" and s.gap <= 1e-6
+        assert formulation == "paths" and s.gap <= 1e-6
     else:
         assert s.status in ("time limit", "no schedule")
         assert s.gap > 0.0
@@ -170,7 +166,7 @@ def test_pinned_group_and_starters_are_honoured() -> None:
     rules = Rules(groups=(("C1", "C3"),), pinned=((pin_cell, pin_type),), step_rule=StepRule.STARTERS,
                   max_step_mm=25.0, max_types=4)
     q = replace(p, rules=rules)
-    s = solve(q, gap_rel=0.0)
+    s = solve(q, SolveOptions(gap_rel=0.0))
     assert check_schedule(q, s) == []
     assert int(q.cand_type[s.cand[pin_cell]]) == pin_type
     chains = stack_chains(q)
@@ -189,7 +185,7 @@ def test_starter_mass_is_counted() -> None:
 
 def test_pareto_curve_is_monotone() -> None:
     p = synthetic_problem(SyntheticSpec(n_stacks=4, n_levels=5, n_types=12, seed=11), rules=Rules())
-    curve = pareto(p, gap_rel=0.0)
+    curve = pareto(p, SolveOptions(gap_rel=0.0))
     values = [s.objective for _, s in curve if s.status != "infeasible"]
     assert curve[0][0] == 1
     assert all(b <= a + 1e-9 for a, b in zip(values, values[1:], strict=False))

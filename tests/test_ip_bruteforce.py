@@ -15,10 +15,10 @@ from dataclasses import replace
 import numpy as np
 import pytest
 
-from optimizer.schedule import paths
 from optimizer.schedule.check import check_schedule
-from optimizer.schedule.ip import solve
+from optimizer.schedule.pathmodel import applicable
 from optimizer.schedule.problem import Objective, Rules, ScheduleProblem, StepRule
+from optimizer.schedule.solve import SolveOptions, solve
 from optimizer.schedule.synthetic import SyntheticSpec, synthetic_problem
 
 
@@ -185,7 +185,7 @@ def test_bruteforce_equals_integer_program(seed: int, case: int) -> None:
                          rectangles=case % 3 == 0, free_fraction=0.5 if case % 3 == 0 else 0.0)
     p = synthetic_problem(spec, rules=rules, objective=[Objective.STEEL, Objective.COST][seed % 2])
     truth, cand = brute_force(p)
-    got = solve(p, solver="highs", time_limit_s=60, gap_rel=0.0)
+    got = solve(p, SolveOptions(solver="highs", time_limit_s=60, gap_rel=0.0))
     if not math.isfinite(truth):
         assert got.status == "infeasible"
         return
@@ -200,7 +200,7 @@ def test_bruteforce_equals_cbc(seed: int) -> None:
     spec = SyntheticSpec(n_stacks=3, n_levels=4, n_types=8, seed=seed, rectangles=True, free_fraction=0.5)
     p = synthetic_problem(spec, rules=Rules(max_types=2, min_run=2))
     truth, _ = brute_force(p)
-    got = solve(p, solver="cbc", time_limit_s=60, gap_rel=0.0)
+    got = solve(p, SolveOptions(solver="cbc", time_limit_s=60, gap_rel=0.0))
     assert got.objective == pytest.approx(truth, rel=1e-7)
     assert check_schedule(p, got) == []
 
@@ -231,16 +231,16 @@ def test_bruteforce_equals_both_formulations_heavy(seed: int, case: int) -> None
     the shortcut for uncoupled stacks, reach the optimum with a schedule the independent checker accepts."""
     p = heavy_problem(case, seed)
     truth, cand = brute_force(p)
-    runs = [("compact", True), ("compact", False)] + ([("paths", True)] if paths.applicable(p) is None else [])
-    for method, reduce in runs:
-        got = solve(p, solver="highs", time_limit_s=60, gap_rel=0.0, method=method, exact_decomposition=False,
-                    reduce=reduce)
+    runs = [("compact", True), ("compact", False)] + ([("paths", True)] if applicable(p) is None else [])
+    for formulation, reduce in runs:
+        got = solve(p, SolveOptions(solver="highs", time_limit_s=60, gap_rel=0.0, formulation=formulation,
+                                    exact_decomposition=False, reduce=reduce))
         if not math.isfinite(truth):
-            assert got.status == "infeasible", method
+            assert got.status == "infeasible", formulation
             continue
         assert check_schedule(p, cand) == []
-        assert check_schedule(p, got) == [], method
-        assert got.objective == pytest.approx(truth, rel=1e-7, abs=1e-6), method
+        assert check_schedule(p, got) == [], formulation
+        assert got.objective == pytest.approx(truth, rel=1e-7, abs=1e-6), formulation
 
 
 def test_heavy_cases_bind_the_lap_rule() -> None:

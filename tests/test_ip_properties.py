@@ -13,8 +13,8 @@ from test_ip_bruteforce import brute_force
 from optimizer.schedule.check import check_schedule
 from optimizer.schedule.diagnose import diagnose
 from optimizer.schedule.heuristic import baseline, cellwise_lower_bound, figures, rationalise, stack_optimum
-from optimizer.schedule.ip import solve
 from optimizer.schedule.problem import Objective, Rules, StepRule
+from optimizer.schedule.solve import SolveOptions, solve
 from optimizer.schedule.synthetic import SyntheticSpec, synthetic_problem
 
 rules_st = st.builds(
@@ -52,7 +52,7 @@ spec_st = st.builds(
 def test_integer_program_matches_brute_force(spec: SyntheticSpec, rules: Rules, objective: Objective) -> None:
     p = synthetic_problem(spec, rules=rules, objective=objective)
     truth, _ = brute_force(p)
-    got = solve(p, time_limit_s=60, gap_rel=0.0)
+    got = solve(p, SolveOptions(time_limit_s=60, gap_rel=0.0))
     if not math.isfinite(truth):
         assert got.status == "infeasible"
         assert diagnose(p, time_limit_s=20) != []

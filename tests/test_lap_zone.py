@@ -20,10 +20,13 @@ import pytest
 
 from design.params import NationalParameters
 from optimizer.schedule.check import check_schedule
+from optimizer.schedule.compact import formulate
 from optimizer.schedule.diagnose import diagnose
-from optimizer.schedule.heuristic import stack_optimum, stack_shortest_path, transition
-from optimizer.schedule.ip import formulate, solve
+from optimizer.schedule.heuristic import stack_optimum
+from optimizer.schedule.prepared import transition
 from optimizer.schedule.problem import Objective, Rules, Schedule, ScheduleProblem, StepRule, TypeTable
+from optimizer.schedule.solve import SolveOptions, solve
+from optimizer.schedule.stackpaths import stack_shortest_path
 from optimizer.schedule.synthetic import SyntheticSpec, synthetic_problem
 
 STEEL_KG_PER_MM2_M = 7850e-6  # kg per metre of bar per mm2 of area (7,850 kg/m3, common practice)
@@ -133,17 +136,19 @@ def test_default_ratio_is_the_en_recommended_value() -> None:
     assert Rules().lap_steel_ratio_max == pytest.approx(NationalParameters().rho_max_lap, rel=1e-12)
 
 
-@pytest.mark.parametrize(("method", "exact_decomposition"), [("auto", True), ("paths", False), ("compact", False)])
-def test_hand_case_optimum_avoids_the_cheap_pair(method: str, exact_decomposition: bool) -> None:
+@pytest.mark.parametrize(("formulation", "exact_decomposition"), [("auto", True), ("paths", False), ("compact", False)])
+def test_hand_case_optimum_avoids_the_cheap_pair(formulation: str, exact_decomposition: bool) -> None:
     """Hand sums: without the rule T0 + T2 = 300 + 150 = 450; with it T1 + T2 = 345 + 150 = 495 (T0 + T3 = 560).
     The stacks' shortest paths, the path formulation and the compact model all find 495."""
     p = one_stack(HAND, HAND_LEVELS, Rules())
     free = replace(p, rules=replace(p.rules, lap_steel_ratio_max=None))
-    s = solve(p, method=method, exact_decomposition=exact_decomposition, gap_rel=0.0, time_limit_s=10)
+    s = solve(p, SolveOptions(formulation=formulation, exact_decomposition=exact_decomposition, gap_rel=0.0,
+                              time_limit_s=10))
     assert s.objective == pytest.approx(495.0, rel=1e-9)
     assert list(p.cand_type[s.cand]) == [1, 2]
     assert check_schedule(p, s) == []
-    s_free = solve(free, method=method, exact_decomposition=exact_decomposition, gap_rel=0.0, time_limit_s=10)
+    s_free = solve(free, SolveOptions(formulation=formulation, exact_decomposition=exact_decomposition, gap_rel=0.0,
+                                      time_limit_s=10))
     assert s_free.objective == pytest.approx(450.0, rel=1e-9)
     assert list(free.cand_type[s_free.cand]) == [0, 2]
 
@@ -184,19 +189,19 @@ def test_checker_reports_the_pair_with_its_numbers() -> None:
     assert check_schedule(replace(p, rules=Rules(lap_steel_ratio_max=None)), schedule_of(p, [0, 2])) == []
 
 
-@pytest.mark.parametrize("method", ["paths", "compact"])
-def test_warm_start_breaking_the_rule_is_not_used(method: str) -> None:
+@pytest.mark.parametrize("formulation", ["paths", "compact"])
+def test_warm_start_breaking_the_rule_is_not_used(formulation: str) -> None:
     """A warm start made without the rule (T0 + T2, 450) must not serve as incumbent: the optimum stays 495."""
     p = one_stack(HAND, HAND_LEVELS, Rules(max_types=4))
     bad = Schedule(cand=schedule_of(p, [0, 2]), status="heuristic", objective=450.0, bound=-np.inf, gap=np.inf,
                    solver="test", seconds=0.0)
-    s = solve(p, method=method, warm_start=bad, gap_rel=0.0, time_limit_s=10)
+    s = solve(p, SolveOptions(formulation=formulation, gap_rel=0.0, time_limit_s=10), warm_start=bad)
     assert s.objective == pytest.approx(495.0, rel=1e-9)
     assert check_schedule(p, s) == []
 
 
-@pytest.mark.parametrize("method", ["paths", "compact"])
-def test_starters_at_a_large_step_lap_with_the_upper_bars(method: str) -> None:
+@pytest.mark.parametrize("formulation", ["paths", "compact"])
+def test_starters_at_a_large_step_lap_with_the_upper_bars(formulation: str) -> None:
     """STARTERS with max_step 25 mm: 500 -> 400 (50 mm per face) needs separate starter bars repeating T2's
     bars, so the lap holds 2 x 3,927 = 7,854 <= 12,800 mm2 and T2 may stand on T0. Starters: 3,927 mm2 x
     7,850 kg/m3 x 3.0 m = 92.48 kg. T0 + T2 + starters = 542.48 < T0 + T3 = 560 < T1 + T2 + starters = 587.48."""
@@ -205,7 +210,7 @@ def test_starters_at_a_large_step_lap_with_the_upper_bars(method: str) -> None:
     assert starters == pytest.approx(92.48, abs=0.01)
     ok, big = transition(p, np.array([0]), np.array([2]))
     assert ok[0, 0] and big[0, 0]
-    s = solve(p, method=method, exact_decomposition=False, gap_rel=0.0, time_limit_s=10)
+    s = solve(p, SolveOptions(formulation=formulation, exact_decomposition=False, gap_rel=0.0, time_limit_s=10))
     assert list(p.cand_type[s.cand]) == [0, 2]
     assert s.objective == pytest.approx(450.0 + starters, rel=1e-9)
     assert check_schedule(p, s) == []
@@ -213,12 +218,12 @@ def test_starters_at_a_large_step_lap_with_the_upper_bars(method: str) -> None:
     assert not any(n.startswith("lap_As_max") for n in formulate(p).row_name)
 
 
-@pytest.mark.parametrize("method", ["paths", "compact"])
-def test_starters_rule_at_a_small_step_keeps_the_lap_rule(method: str) -> None:
+@pytest.mark.parametrize("formulation", ["paths", "compact"])
+def test_starters_rule_at_a_small_step_keeps_the_lap_rule(formulation: str) -> None:
     """STARTERS with max_step 75 mm: the 50 mm step needs no separate starters, so T0's bars lap with T2's and
     the pair is refused as under LIMIT: optimum T1 + T2 = 495."""
     p = one_stack(HAND, HAND_LEVELS, Rules(step_rule=StepRule.STARTERS, max_step_mm=75.0))
-    s = solve(p, method=method, exact_decomposition=False, gap_rel=0.0, time_limit_s=10)
+    s = solve(p, SolveOptions(formulation=formulation, exact_decomposition=False, gap_rel=0.0, time_limit_s=10))
     assert s.objective == pytest.approx(495.0, rel=1e-9)
     assert list(p.cand_type[s.cand]) == [1, 2]
     assert check_schedule(p, schedule_of(p, [0, 2])) != []
@@ -231,8 +236,8 @@ LIGHT = types_of([
 ])
 
 
-@pytest.mark.parametrize("method", ["paths", "compact"])
-def test_inactive_rule_changes_nothing(method: str) -> None:
+@pytest.mark.parametrize("formulation", ["paths", "compact"])
+def test_inactive_rule_changes_nothing(formulation: str) -> None:
     """Hand sums: the heaviest pair, 12H20 under 300 x 300 8H16, laps 3,770 + 1,608 = 5,378 <= 0.08 x 90,000 =
     7,200 mm2, so the rule cannot bind: the compact model writes no lap row and both formulations return the
     same schedule with and without the rule: T1, T0, T0 = 20 + 9 + 8 = 37 with 2 types."""
@@ -240,8 +245,8 @@ def test_inactive_rule_changes_nothing(method: str) -> None:
     p = one_stack(LIGHT, levels, Rules(max_types=2))
     off = replace(p, rules=replace(p.rules, lap_steel_ratio_max=None))
     assert not any(n.startswith("lap_As_max") for n in formulate(p).row_name)
-    a = solve(p, method=method, gap_rel=0.0, time_limit_s=10)
-    b = solve(off, method=method, gap_rel=0.0, time_limit_s=10)
+    a = solve(p, SolveOptions(formulation=formulation, gap_rel=0.0, time_limit_s=10))
+    b = solve(off, SolveOptions(formulation=formulation, gap_rel=0.0, time_limit_s=10))
     assert a.objective == pytest.approx(b.objective, rel=1e-12)
     assert a.objective == pytest.approx(37.0, rel=1e-12)  # T1, T0, T0: 20 + 9 + 8
     assert list(a.cand) == list(b.cand)
@@ -252,9 +257,9 @@ def test_inactive_rule_on_a_light_synthetic_building() -> None:
     schedule and value with the rule and without it, for both formulations."""
     p = synthetic_problem(SyntheticSpec(n_stacks=3, n_levels=4, n_types=8, seed=0), rules=Rules(max_types=2))
     off = replace(p, rules=replace(p.rules, lap_steel_ratio_max=None))
-    for method in ("paths", "compact"):
-        a = solve(p, method=method, gap_rel=0.0, time_limit_s=30)
-        b = solve(off, method=method, gap_rel=0.0, time_limit_s=30)
+    for formulation in ("paths", "compact"):
+        a = solve(p, SolveOptions(formulation=formulation, gap_rel=0.0, time_limit_s=30))
+        b = solve(off, SolveOptions(formulation=formulation, gap_rel=0.0, time_limit_s=30))
         assert a.objective == pytest.approx(b.objective, rel=1e-9)
         assert check_schedule(p, a) == []
 
@@ -264,8 +269,8 @@ def test_no_path_but_the_lap_diagnosed() -> None:
     and the diagnosis names the lap, the stack and both levels."""
     p = one_stack(HAND, [[(0, 300.0)], [(2, 150.0)]], Rules(max_types=2))
     assert stack_optimum(p) is None
-    for method in ("paths", "compact"):
-        assert solve(p, method=method, gap_rel=0.0, time_limit_s=10).status == "infeasible"
+    for formulation in ("paths", "compact"):
+        assert solve(p, SolveOptions(formulation=formulation, gap_rel=0.0, time_limit_s=10)).status == "infeasible"
     found = diagnose(p, time_limit_s=5)
     assert len(found) == 1
     assert "stack C1" in found[0] and "L01" in found[0] and "L00" in found[0] and "9.5.2(3)" in found[0]

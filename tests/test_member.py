@@ -15,13 +15,13 @@ from design.member import (
     CheckSettings,
     ColumnActions,
     MinEccentricity,
-    SectionData,
     check_column,
     check_members,
 )
 from design.resistance import DesignSection, SectionBatch, axial_resistance, moment_resistance
+from design.second_order.imperfections import ImperfectionMethod
+from design.section_data import SectionData
 from design.sections import CircBars, CircSection, RectBars, RectSection
-from design.slenderness import ImperfectionMethod
 
 SQ = DesignSection(RectSection(400, 400, 35, 10, RectBars(25, 3, 3)), Concrete(35), Reinforcement(500))
 RECT = DesignSection(RectSection(300, 500, 30, 8, RectBars(20, 2, 3)), Concrete(30), Reinforcement(500))

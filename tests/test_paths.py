@@ -1,8 +1,9 @@
-"""The path formulation (optimizer.schedule.paths) and its compiled pricing (optimizer.schedule.stackdp) against independent truths.
+"""The path formulation (optimizer.schedule.paths) and its compiled pricing (optimizer.schedule.stackdp) against
+independent truths.
 
 Sources of truth used here (each test names its own):
 
-* the numpy dynamic program ``optimizer.schedule.heuristic._levels_dp`` (written apart from the compiled one);
+* the numpy dynamic program ``optimizer.schedule.stackpaths.levels_dp`` (written apart from the compiled one);
 * a brute-force enumeration written in this file: every candidate combination of every stack is
   listed and each rule of :class:`optimizer.schedule.problem.Rules` is restated literally (its own pair test,
   run-length count, grade-change count, starter bars, caps, prices, groups and pins). Nothing in it
@@ -26,9 +27,10 @@ from hypothesis import strategies as st
 
 from optimizer.schedule import paths, stackdp
 from optimizer.schedule.check import check_schedule
-from optimizer.schedule.heuristic import _levels_dp
-from optimizer.schedule.ip import solve
+from optimizer.schedule.pathmodel import PathModel, applicable
 from optimizer.schedule.problem import Objective, Rules, ScheduleProblem, StepRule, TypeTable
+from optimizer.schedule.solve import SolveOptions, solve, solve_paths
+from optimizer.schedule.stackpaths import levels_dp
 from optimizer.schedule.synthetic import SyntheticSpec, synthetic_problem
 
 # Heavily reinforced synthetic catalogues (As / Ac from 2.5 % to 4 %, large bars, close sizes, heavy loads):
@@ -345,7 +347,7 @@ def dp_problem(i: int) -> ScheduleProblem:
 
 @pytest.mark.parametrize("i", range(30))
 def test_forward_equals_numpy_dynamic_program(i: int) -> None:
-    """Truth: heuristic._levels_dp, the numpy dynamic program written apart from stackdp.forward.
+    """Truth: stackpaths.levels_dp, the numpy dynamic program written apart from stackdp.forward.
 
     PathModel merges identical stacks and multiplies their weights by the multiplicity, so the compiled
     cost of a chain is the multiplicity times the numpy cost of the unit's levels. The traced rows are
@@ -353,7 +355,7 @@ def test_forward_equals_numpy_dynamic_program(i: int) -> None:
     rules (bf_pair, minimum run) accept.
     """
     p = dp_problem(i)
-    model = paths.PathModel(p)
+    model = PathModel(p)
     m = run_states(p)
     n_t, n_g = len(p.types), len(bf_grade_id(p))
     rng = np.random.default_rng(i)
@@ -362,7 +364,7 @@ def test_forward_equals_numpy_dynamic_program(i: int) -> None:
         unit = model.prep.units[u]
         for ch in model.chains[u]:
             levels = unit.orients[ch.orient]
-            ref, ref_rows = _levels_dp(p, levels, m)
+            ref, ref_rows = levels_dp(p, levels, m)
             f, back, bs = stackdp.forward(ch.off, ch.typ, ch.w, ch.st, model.ok_up, model.big_up, model.sec,
                                           model.gid, np.zeros(n_t), np.zeros(n_g), m)
             cost, rows = stackdp.trace(ch.off, f, back, bs)
@@ -381,7 +383,7 @@ def test_forward_equals_numpy_dynamic_program(i: int) -> None:
         allowed = rng.random(n_t) < 0.6
         pen = np.where(allowed, 0.0, np.inf)
         val, col = model.price(u, pen, np.zeros(n_g))
-        ref = min(_levels_dp(p, levels, m, allowed)[0] for levels in unit.orients.values())
+        ref = min(levels_dp(p, levels, m, allowed)[0] for levels in unit.orients.values())
         assert close(val, mult * ref)
         if col is not None:
             assert set(col.types) <= set(np.flatnonzero(allowed).tolist())
@@ -428,7 +430,7 @@ def test_price_equals_enumeration(i: int) -> None:
     returns must carry the path's true weight (multiplicity x weight, no penalties), its types and grades.
     """
     p = price_problem(i)
-    model = paths.PathModel(p)
+    model = PathModel(p)
     gid = bf_grade_id(p)
     rng = np.random.default_rng(100 + i)
     enum = {u: bf_unit_paths(p, model.prep.units[u].stacks) for u in model.units}
@@ -467,7 +469,7 @@ def test_through_equals_enumeration(i: int) -> None:
     orientation that use the row's candidate at the row's storey (inf when none does); with min_run > 1 it
     may only be lower (the backward pass relaxes the minimum run)."""
     p = price_problem(i)
-    model = paths.PathModel(p)
+    model = PathModel(p)
     rng = np.random.default_rng(200 + i)
     exact = run_states(p) == 1
     for _ in range(2):
@@ -543,19 +545,19 @@ def _params() -> list:
     out = []
     for case, (name, _, _) in enumerate(COUPLED):
         for seed in (1, 2):
-            for method in ("paths", "compact"):
+            for formulation in ("paths", "compact"):
                 marks = []
-                if method == "compact" and (name, seed) in _COMPACT_GRADE_BUG:
+                if formulation == "compact" and (name, seed) in _COMPACT_GRADE_BUG:
                     marks = [pytest.mark.xfail(strict=True, reason=(
                         "compact model under a grade cap: the greedy warm start ignores max_grades, its value "
                         "prunes every feasible schedule, and solve reports 'infeasible' with a schedule "
                         "that breaks the cap"))]
-                out.append(pytest.param(case, seed, method, marks=marks, id=f"{name}-{seed}-{method}"))
+                out.append(pytest.param(case, seed, formulation, marks=marks, id=f"{name}-{seed}-{formulation}"))
     return out
 
 
-@pytest.mark.parametrize(("case", "seed", "method"), _params())
-def test_solve_reaches_bruteforce_optimum(case: int, seed: int, method: str) -> None:
+@pytest.mark.parametrize(("case", "seed", "formulation"), _params())
+def test_solve_reaches_bruteforce_optimum(case: int, seed: int, formulation: str) -> None:
     """Truth: bf_optimum, the exact enumeration over all schedules with every rule, cap and price restated.
 
     Both formulations must return a schedule the independent checker accepts with the optimal value; the
@@ -563,9 +565,9 @@ def test_solve_reaches_bruteforce_optimum(case: int, seed: int, method: str) -> 
     p = coupled_problem(case, seed)
     truth, cand = bf_optimum(p)
     assert math.isfinite(truth) and check_schedule(p, cand) == []
-    s = solve(p, method=method, gap_rel=0.0, time_limit_s=30)
+    s = solve(p, SolveOptions(formulation=formulation, gap_rel=0.0, time_limit_s=30))
     assert_solved(p, s, truth)
-    if method == "paths":
+    if formulation == "paths":
         assert s.solver.startswith("path formulation")
 
 
@@ -574,7 +576,7 @@ def test_paths_with_cbc_master(case: int) -> None:
     """Truth: bf_optimum. The path formulation with CBC (through PuLP) as the integer master."""
     p = coupled_problem(case, 1)
     truth, _ = bf_optimum(p)
-    s = solve(p, method="paths", solver="cbc", gap_rel=0.0, time_limit_s=30)
+    s = solve(p, SolveOptions(formulation="paths", solver="cbc", gap_rel=0.0, time_limit_s=30))
     assert_solved(p, s, truth)
     assert "CBC" in s.solver
 
@@ -587,7 +589,7 @@ def test_solve_paths_cap_argument_overrides_rules() -> None:
     capped = replace(p, rules=replace(p.rules, max_types=2))
     truth, _ = bf_optimum(capped)
     lines: list[str] = []
-    s = paths.solve_paths(p, max_types=2, gap_rel=0.0, time_limit_s=30, progress=lines.append)
+    s = solve_paths(p, SolveOptions(gap_rel=0.0, time_limit_s=30), max_types=2, progress=lines.append)
     assert_solved(capped, s, truth)
     assert lines and all(isinstance(x, str) for x in lines)
 
@@ -596,7 +598,7 @@ def test_warm_start_is_kept_or_bettered() -> None:
     """Truth: bf_optimum. Handing the optimal schedule itself as warm start gives back the optimum."""
     p = coupled_problem(11, 1)
     truth, cand = bf_optimum(p)
-    s = paths.solve_paths(p, gap_rel=0.0, time_limit_s=30, warm_start=cand)
+    s = solve_paths(p, SolveOptions(gap_rel=0.0, time_limit_s=30), warm_start=cand)
     assert_solved(p, s, truth)
 
 
@@ -632,20 +634,20 @@ def _not_applicable_params() -> list:
 def test_not_applicable(case: int, seed: int) -> None:
     """Truth: bf_optimum, and the rule statement that a path may re-use a type when a monotone rule is off.
 
-    applicable() gives a reason; solve(method="paths") refuses; method="auto" falls back to the compact model
+    applicable() gives a reason; solve(formulation="paths") refuses; formulation="auto" falls back to the compact model
     and still reaches the brute-force optimum with a schedule the checker accepts."""
     _, rules, words = NOT_APPLICABLE[case]
     spec = SyntheticSpec(n_stacks=3, n_levels=4, n_types=8, seed=seed * 7 + case, rectangles=seed % 2 == 0,
                          free_fraction=0.5)
     p = synthetic_problem(spec, rules=rules, objective=(Objective.STEEL, Objective.COST)[seed % 2])
-    why = paths.applicable(p)
+    why = applicable(p)
     assert isinstance(why, str) and words in why
     with pytest.raises(ValueError):
-        solve(p, method="paths", gap_rel=0.0)
+        solve(p, SolveOptions(formulation="paths", gap_rel=0.0))
     with pytest.raises(ValueError):
-        paths.solve_paths(p)
+        solve_paths(p)
     truth, _ = bf_optimum(p)
-    s = solve(p, method="auto", gap_rel=0.0, time_limit_s=30)
+    s = solve(p, SolveOptions(formulation="auto", gap_rel=0.0, time_limit_s=30))
     assert not s.solver.startswith("path formulation")
     assert_solved(p, s, truth)
 
@@ -654,10 +656,10 @@ def test_applicable_for_plain_rules_and_unequal_group() -> None:
     """Closed form: with every monotone rule on and no cap on grade changes the formulation applies; a
     group of stacks with different storeys is declined."""
     p = synthetic_problem(SyntheticSpec(n_stacks=3, n_levels=4, seed=5), rules=Rules(max_types=2, min_run=2))
-    assert paths.applicable(p) is None
+    assert applicable(p) is None
     hand = hand_problem([(400, 400, 3, 3, 16, 30)], [[[(0, 1.0)], [(0, 1.0)]], [[(0, 1.0)]]],
                         Rules(groups=(("C1", "C2"),), max_types=1))
-    assert isinstance(paths.applicable(hand), str)
+    assert isinstance(applicable(hand), str)
 
 
 # --------------------------------------------------------------------------------------------
@@ -700,7 +702,7 @@ def test_property_paths_equal_bruteforce(p: ScheduleProblem) -> None:
     """Truth: bf_optimum. Any small problem with any coupling: the path formulation reaches the optimum
     (or finds none when there is none) and never reports a bound above the optimum."""
     truth, _ = bf_optimum(p)
-    s = solve(p, method="paths", gap_rel=0.0, time_limit_s=30)
+    s = solve(p, SolveOptions(formulation="paths", gap_rel=0.0, time_limit_s=30))
     if math.isinf(truth):
         assert math.isinf(s.objective)
         assert s.status in ("infeasible", "no schedule")
@@ -715,14 +717,14 @@ def test_property_paths_equal_bruteforce(p: ScheduleProblem) -> None:
 HAND_TYPES = [(300, 300, 3, 3, 16, 30), (400, 400, 3, 3, 16, 30), (400, 400, 4, 4, 20, 30)]
 
 
-@pytest.mark.parametrize("method", ["paths", "auto", "compact"])
-def test_stack_without_buildable_path_is_infeasible(method: str) -> None:
+@pytest.mark.parametrize("formulation", ["paths", "auto", "compact"])
+def test_stack_without_buildable_path_is_infeasible(formulation: str) -> None:
     """Closed form: in stack C1 the only type of the upper storey (400 x 400) is wider than the only type of
     the lower one (300 x 300), and sections never grow going up, so C1 has no buildable path."""
     p = hand_problem(HAND_TYPES, [[[(0, 10.0)], [(1, 12.0)]], [[(1, 12.0), (2, 15.0)], [(1, 11.0)]]],
                      Rules(max_types=3))
     assert bf_optimum(p)[0] == math.inf
-    s = solve(p, method=method, gap_rel=0.0, time_limit_s=10)
+    s = solve(p, SolveOptions(formulation=formulation, gap_rel=0.0, time_limit_s=10))
     assert s.status == "infeasible"
     assert math.isinf(s.objective)
 
@@ -733,10 +735,10 @@ def test_minimum_run_leaves_no_path_is_infeasible() -> None:
     p = hand_problem(HAND_TYPES, [[[(1, 10.0)], [(0, 8.0)], [(0, 7.0)]], [[(1, 9.0)], [(1, 9.0)], [(1, 9.0)]]],
                      Rules(min_run=2, price_per_type=1.0))
     assert bf_optimum(p)[0] == math.inf
-    assert paths.solve_paths(p, gap_rel=0.0, time_limit_s=10).status == "infeasible"
+    assert solve_paths(p, SolveOptions(gap_rel=0.0, time_limit_s=10)).status == "infeasible"
     # the same with min_run = 1 is buildable: 10 + 8 + 7 + 3 x 9 + 2 types x 1
     q = replace(p, rules=replace(p.rules, min_run=1))
-    s = paths.solve_paths(q, gap_rel=0.0, time_limit_s=10)
+    s = solve_paths(q, SolveOptions(gap_rel=0.0, time_limit_s=10))
     assert_solved(q, s, 54.0)
 
 
@@ -744,13 +746,13 @@ def test_minimum_run_leaves_no_path_is_infeasible() -> None:
 # regressions: bugs found by these tests and fixed (each with its exact reproduction)
 # --------------------------------------------------------------------------------------------
 
-# Pruning bug (fixed): paths._prune took the least through() value of a unit as its cheapest penalised path;
+# Pruning bug (fixed): paths.prune took the least through() value of a unit as its cheapest penalised path;
 # with min_run > 1 through() relaxes the minimum run in its backward pass, so that value could lie below the
 # true cheapest path, the keep-threshold was too tight and rows of the optimal schedule were pruned.
 
 
-@pytest.mark.parametrize("method", ["paths", "auto"])
-def test_paths_min_run_pruning_keeps_the_optimum(method: str) -> None:
+@pytest.mark.parametrize("formulation", ["paths", "auto"])
+def test_paths_min_run_pruning_keeps_the_optimum(formulation: str) -> None:
     """Truth: bf_optimum (the compact model agrees: 1253.7885 with 2 types and 2 sections, every stack on
     section 350 x 350 except the pinned stack C1 on 550 x 550).
 
@@ -759,8 +761,9 @@ def test_paths_min_run_pruning_keeps_the_optimum(method: str) -> None:
     p = synthetic_problem(spec, rules=Rules(price_per_section=150.0, min_run=2, pinned=((0, 4),)))
     truth, _ = bf_optimum(p)
     assert truth == pytest.approx(1253.7885349395106, rel=1e-9)
-    assert solve(p, method="compact", gap_rel=0.0, time_limit_s=30).objective == pytest.approx(truth, rel=1e-9)
-    s = solve(p, method=method, gap_rel=0.0, time_limit_s=30)
+    compact = solve(p, SolveOptions(formulation="compact", gap_rel=0.0, time_limit_s=30))
+    assert compact.objective == pytest.approx(truth, rel=1e-9)
+    s = solve(p, SolveOptions(formulation=formulation, gap_rel=0.0, time_limit_s=30))
     assert s.bound <= truth + 1e-6 * truth  # before the fix: 1269.9456: the reported bound is above the optimum
     assert s.objective == pytest.approx(truth, rel=1e-9)  # before the fix: 1269.9456, status "optimal"
 
@@ -769,7 +772,7 @@ def test_prune_with_no_slack_keeps_each_units_cheapest_path() -> None:
     """Truth: the documented pruning rule (docs/integer_program.md): a row is dropped only when every
     schedule through it costs more than the incumbent. With zero penalties and incumbent = bound (no slack),
     the rows of each unit's own cheapest path still lie on a schedule no dearer than the incumbent, so the
-    cheapest price of every unit must be unchanged by pruning. (Private helpers paths._prune and paths._State
+    cheapest price of every unit must be unchanged by pruning. (The helpers paths.prune and paths.State
     are called directly: this is the step that goes wrong in test_paths_min_run_pruning_keeps_the_optimum.)
 
     Seed 3, 2 stacks x 4 storeys, 8 types, min_run 2: unit 0's least through() value is 14.21 below its
@@ -778,14 +781,14 @@ def test_prune_with_no_slack_keeps_each_units_cheapest_path() -> None:
 
     p = synthetic_problem(SyntheticSpec(n_stacks=2, n_levels=4, n_types=8, seed=3),
                           rules=Rules(min_run=2, max_types=3))
-    model = paths.PathModel(p)
+    model = PathModel(p)
     z, zg = np.zeros(len(p.types)), np.zeros(len(model.grades))
     before = {u: model.price(u, z, zg)[0] for u in model.units}
     assert all(math.isfinite(v) for v in before.values())
-    state = paths._State(value=1.0, bound=1.0)
+    state = paths.State(value=1.0, bound=1.0)
     with ThreadPoolExecutor(max_workers=1) as pool:
-        paths._prune(model, None, {u: z for u in model.units}, {u: zg for u in model.units}, state, pool, [],
-                     lambda _m: None)
+        paths.prune(model, {u: z for u in model.units}, {u: zg for u in model.units}, state, pool, [],
+                    lambda _m: None)
     after = {u: model.price(u, z, zg)[0] for u in model.units}
     for u in model.units:
         assert after[u] == pytest.approx(before[u], rel=1e-12)  # before the fix: inf for unit 0
@@ -797,8 +800,8 @@ def test_paths_status_time_limit_only_when_the_limit_was_reached() -> None:
     spec = SyntheticSpec(n_stacks=3, n_levels=3, n_types=6, seed=251991, rectangles=True, free_fraction=1.0)
     p = synthetic_problem(spec, rules=Rules(price_per_section=150.0, max_step_mm=25.0))
     truth, _ = bf_optimum(p)
-    assert solve(p, method="compact", gap_rel=0.0, time_limit_s=20).status == "optimal"
-    s = solve(p, method="paths", gap_rel=0.0, time_limit_s=20)
+    assert solve(p, SolveOptions(formulation="compact", gap_rel=0.0, time_limit_s=20)).status == "optimal"
+    s = solve(p, SolveOptions(formulation="paths", gap_rel=0.0, time_limit_s=20))
     assert_solved(p, s, truth)  # the schedule and the bound are right
     assert s.status == "optimal" or s.seconds >= 0.5 * 20  # before the fix: "time limit" after well under 1 s
 
@@ -808,8 +811,8 @@ def test_paths_cap_that_no_schedule_meets_is_infeasible() -> None:
     schedule uses 2 types, more than the cap of 1."""
     p = hand_problem(HAND_TYPES, [[[(0, 10.0)], [(0, 12.0)]], [[(1, 12.0)], [(1, 11.0)]]], Rules(max_types=1))
     assert bf_optimum(p)[0] == math.inf
-    assert solve(p, method="compact", gap_rel=0.0, time_limit_s=5).status == "infeasible"
-    s = solve(p, method="paths", gap_rel=0.0, time_limit_s=5)
+    assert solve(p, SolveOptions(formulation="compact", gap_rel=0.0, time_limit_s=5)).status == "infeasible"
+    s = solve(p, SolveOptions(formulation="paths", gap_rel=0.0, time_limit_s=5))
     assert math.isinf(s.objective)
     assert s.status == "infeasible"  # before the fix: "no schedule"
 
@@ -820,9 +823,10 @@ def test_compact_grade_cap_warm_start_prunes_every_feasible_schedule() -> None:
                           rules=Rules(max_grades=1), objective=Objective.COST)
     truth, _ = bf_optimum(p)
     assert truth == pytest.approx(4380.566311087106, rel=1e-9)
-    assert solve(p, method="compact", gap_rel=0.0, reduce=False).objective == pytest.approx(truth, rel=1e-9)
-    assert solve(p, method="paths", gap_rel=0.0).objective == pytest.approx(truth, rel=1e-9)
-    s = solve(p, method="compact", gap_rel=0.0, time_limit_s=30)
+    compact = solve(p, SolveOptions(formulation="compact", gap_rel=0.0, reduce=False))
+    assert compact.objective == pytest.approx(truth, rel=1e-9)
+    assert solve(p, SolveOptions(formulation="paths", gap_rel=0.0)).objective == pytest.approx(truth, rel=1e-9)
+    s = solve(p, SolveOptions(formulation="compact", gap_rel=0.0, time_limit_s=30))
     assert s.status != "infeasible"  # before the fix: "infeasible"
     assert_solved(p, s, truth)  # before the fix: objective 2481.07 with 2 grades
 
@@ -834,8 +838,9 @@ def test_compact_grade_change_cap_warm_start_prunes_every_feasible_schedule() ->
     p = synthetic_problem(spec, rules=Rules(max_grade_changes=0), objective=Objective.COST)
     truth, _ = bf_optimum(p)
     assert truth == pytest.approx(2724.0799259059227, rel=1e-9)
-    assert solve(p, method="compact", gap_rel=0.0, reduce=False).objective == pytest.approx(truth, rel=1e-9)
-    s = solve(p, method="auto", gap_rel=0.0, time_limit_s=30)
+    compact = solve(p, SolveOptions(formulation="compact", gap_rel=0.0, reduce=False))
+    assert compact.objective == pytest.approx(truth, rel=1e-9)
+    s = solve(p, SolveOptions(formulation="auto", gap_rel=0.0, time_limit_s=30))
     assert s.status != "infeasible"  # before the fix: "infeasible"
     assert_solved(p, s, truth)
 
@@ -848,13 +853,13 @@ def test_min_counts_and_a_cap_below_a_stacks_own_need() -> None:
 
     p = hand_problem(HAND_TYPES, [[[(2, 15.0)], [(0, 10.0)]], [[(1, 12.0), (2, 14.0)], [(1, 11.0)]]],
                      Rules(max_types=1))
-    model = paths.PathModel(p)
+    model = PathModel(p)
     with ThreadPoolExecutor(max_workers=1) as pool:
         need_t, need_g = paths.min_counts(model, pool)
     assert sorted(need_t.values()) == [1, 2]
     assert set(need_g.values()) == {1}
     assert bf_optimum(p)[0] == math.inf
-    s = solve(p, method="paths", gap_rel=0.0, time_limit_s=5)
+    s = solve(p, SolveOptions(formulation="paths", gap_rel=0.0, time_limit_s=5))
     assert s.status == "infeasible"
     assert any("stack C1" in n and "2 types" in n for n in s.notes)
     # with a cap of 2: C2's top takes only T1, so every schedule uses T0, T1 and T2; this needs the
@@ -862,5 +867,5 @@ def test_min_counts_and_a_cap_below_a_stacks_own_need() -> None:
     p2 = hand_problem(HAND_TYPES, [[[(2, 15.0)], [(0, 10.0)]], [[(1, 12.0), (2, 14.0)], [(1, 11.0)]]],
                       Rules(max_types=2))
     assert bf_optimum(p2)[0] == math.inf
-    for method in ("paths", "compact"):
-        assert solve(p2, method=method, gap_rel=0.0, time_limit_s=10).status == "infeasible"
+    for formulation in ("paths", "compact"):
+        assert solve(p2, SolveOptions(formulation=formulation, gap_rel=0.0, time_limit_s=10)).status == "infeasible"

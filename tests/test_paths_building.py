@@ -17,8 +17,8 @@ from optimizer.candidates.feasibility import feasibility
 from optimizer.pipeline.assemble import to_problem
 from optimizer.pipeline.settings import read_run_settings
 from optimizer.schedule.check import check_schedule
-from optimizer.schedule.ip import solve
 from optimizer.schedule.problem import Objective, Rules
+from optimizer.schedule.solve import SolveOptions, solve
 
 SMALL = Path(__file__).resolve().parent.parent / "scenarios" / "small_building.toml"
 EXTRA = ('\n[catalogue]\nsizes_mm = {min = 300, max = 700, step = 100}\nshapes = ["square"]\n'
@@ -39,9 +39,9 @@ def problem():
 ], ids=["price", "cap", "sections"])
 def test_paths_equal_compact_on_the_small_building(problem, rules):
     p = replace(problem, rules=rules, objective=Objective.STEEL)
-    exact = solve(p, method="compact", gap_rel=0.0, time_limit_s=120)
+    exact = solve(p, SolveOptions(formulation="compact", gap_rel=0.0, time_limit_s=120))
     assert exact.status == "optimal"
-    got = solve(p, method="paths", gap_rel=0.0, time_limit_s=120)
+    got = solve(p, SolveOptions(formulation="paths", gap_rel=0.0, time_limit_s=120))
     assert check_schedule(p, got) == []
     assert got.objective == pytest.approx(exact.objective, rel=1e-9)
     assert got.bound <= exact.objective * (1 + 1e-9)

@@ -431,21 +431,21 @@ SCENARIO_CASES = [
 # Cases the program gets wrong today: each reason names the file and function to fix.
 SCENARIO_BUGS = {
     "huge integer height": (_edit(SMALL_TEXT, "height_m = 4.5", "height_m = 1" + "0" * 400), "height_m", None,
-                            "optimizer/building/scenario.py _number: float() of a huge TOML integer raises OverflowError"),
+                            "optimizer/building/tables.py number: float() of a huge TOML integer raises OverflowError"),
     "huge integer outline": (_edit(SMALL_TEXT, "[[-0.3, -0.3], [15.3, -0.3]", "[[-0.3, -0.3], [1" + "0" * 400
                                    + ", -0.3]", 1), "outline_m", None,
-                             "optimizer/building/scenario.py _number: OverflowError on a huge integer"),
+                             "optimizer/building/tables.py number: OverflowError on a huge integer"),
     "storey height 1e300 m": (_edit(SMALL_TEXT, "height_m = 4.5", "height_m = 1e300"), "height_m", "1e+300",
-                              "optimizer/building/scenario.py _read_levels: no upper bound on height_m; a run with "
+                              "optimizer/building/layout.py read_levels: no upper bound on height_m; a run with "
                               "1e300 m storeys is accepted"),
     "stack at x = 1e300 m": (_edit(SMALL_TEXT, "x_m = 15.0", "x_m = 1e300"), "x_m", "1e+300",
-                             "optimizer/building/scenario.py _read_stacks: no bound on x_m/y_m; takedown then fails in "
+                             "optimizer/building/layout.py read_stacks: no bound on x_m/y_m; takedown then fails in "
                              "shapely voronoi_polygons with GEOSException (traceback)"),
     "trial size 1e300 mm": (_edit(SMALL_TEXT, "[350, 350]", "[1e300, 350]"), "trial_size_mm", "1e+300",
                             "optimizer/building/scenario.py _read_settings: no upper bound on trial_size_mm; "
-                            "takedown._section_I_m4 raises OverflowError (traceback)"),
+                            "subframe._section_I_m4 raises OverflowError (traceback)"),
     "sdl 1e300 kPa": (_edit(SMALL_TEXT, "sdl_kPa = 1.5", "sdl_kPa = 1e300"), "sdl_kPa", "1e+300",
-                      "optimizer/building/scenario.py _read_floors: no upper bound on loads; 1e300 kPa is accepted and "
+                      "optimizer/building/layout.py read_floors: no upper bound on loads; 1e300 kPa is accepted and "
                       "actions.csv is written with 300-digit forces"),
     "density 1e300 kN/m3": (_edit(SMALL_TEXT, "concrete_density_kN_m3 = 25.0", "concrete_density_kN_m3 = 1e300"),
                             "concrete_density_kN_m3", "1e+300",

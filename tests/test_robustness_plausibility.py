@@ -6,9 +6,10 @@ from pathlib import Path
 
 import pytest
 
+from optimizer.building.actions_csv import read_actions_csv
 from optimizer.building.plausibility import LIMITS, plausibility_warnings
 from optimizer.building.scenario import load_scenario, load_scenario_text
-from optimizer.building.takedown import read_actions_csv, scenario_actions
+from optimizer.building.takedown import scenario_actions
 
 ROOT = Path(__file__).resolve().parent.parent
 SMALL = ROOT / "scenarios" / "small_building.toml"

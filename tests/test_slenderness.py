@@ -1,4 +1,7 @@
-"""Tests of design.slenderness against EN 1992-1-1 5.2, 5.8 and 6.1(4)."""
+"""Tests of design.second_order against EN 1992-1-1 5.2, 5.8 and 6.1(4).
+
+Imperfections (5.2, 6.1(4)), slenderness (5.8.3), nominal stiffness (5.8.7), nominal curvature (5.8.8).
+"""
 
 from __future__ import annotations
 
@@ -9,8 +12,11 @@ import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
-from design import slenderness as sl
 from design.params import EN_RECOMMENDED, with_overrides
+from design.second_order import imperfections as im
+from design.second_order import nominal_curvature as nc
+from design.second_order import nominal_stiffness as ns
+from design.second_order import slenderness as sl
 
 # --------------------------------------------------------------------------
 # Effective length, EN 1992-1-1 5.8.3.2
@@ -152,7 +158,7 @@ def test_lambda_lim_decreases_with_n(n1, n2):
 @pytest.mark.parametrize("l0", [2000.0, 3500.0, 8000.0])
 def test_ei_simplified_is_l0_over_400(l0):
     """EN 1992-1-1 5.2(9): ei = l0/400."""
-    assert float(sl.ei(l0, sl.ImperfectionMethod.SIMPLIFIED)) == pytest.approx(l0 / 400.0)
+    assert float(im.ei(l0, im.ImperfectionMethod.SIMPLIFIED)) == pytest.approx(l0 / 400.0)
 
 
 @pytest.mark.parametrize(
@@ -167,21 +173,21 @@ def test_ei_simplified_is_l0_over_400(l0):
 )
 def test_alpha_h_eq_5_1(l_mm, alpha_h):
     """EN 1992-1-1 5.2(5): alpha_h = 2/sqrt(l), 2/3 <= alpha_h <= 1, l in m."""
-    assert float(sl.alpha_h(l_mm)) == pytest.approx(alpha_h)
+    assert float(im.alpha_h(l_mm)) == pytest.approx(alpha_h)
 
 
 def test_theta_i_and_ei_by_hand():
     # theta_i = (1/200) * 0.8 * sqrt(0.5 (1 + 1/4)) = 0.0031623 (Eq. (5.1), m = 4).
-    assert float(sl.theta_i(6250.0, 4)) == pytest.approx(0.005 * 0.8 * math.sqrt(0.625))
+    assert float(im.theta_i(6250.0, 4)) == pytest.approx(0.005 * 0.8 * math.sqrt(0.625))
     # Isolated member, l = l0 = 4 m: theta_i = 1/200 -> ei = l0/400 (Eq. (5.2)).
-    assert float(sl.ei(4000.0)) == pytest.approx(10.0)
+    assert float(im.ei(4000.0)) == pytest.approx(10.0)
 
 
 @pytest.mark.parametrize(("h", "e0"), [(200.0, 20.0), (600.0, 20.0), (750.0, 25.0), (900.0, 30.0)])
 def test_e0_min(h, e0):
     """EN 1992-1-1 6.1(4): e0 = max(h/30, 20 mm)."""
-    assert float(sl.e0_min(h)) == pytest.approx(e0)
-    assert float(sl.e0_min(h)) >= 20.0
+    assert float(im.e0_min(h)) == pytest.approx(e0)
+    assert float(im.e0_min(h)) >= 20.0
 
 
 # --------------------------------------------------------------------------
@@ -201,25 +207,25 @@ def test_e0_min(h, e0):
 )
 def test_M0e_eq_5_32(M01, M02, expected):
     """EN 1992-1-1 Eq. (5.32) by hand."""
-    assert float(sl.M0e(M01, M02)) == pytest.approx(expected)
+    assert float(nc.M0e(M01, M02)) == pytest.approx(expected)
 
 
 def test_M0e_rejects_wrong_order():
     with pytest.raises(ValueError, match="M02"):
-        sl.M0e(100.0, 50.0)
+        nc.M0e(100.0, 50.0)
 
 
 def test_first_order_end_moments_orders_and_adds_imperfection():
     # Double curvature top +40, bottom -20 kNm, NEd ei = 1000 kN * 15 mm = 15 kNm.
-    M01, M02 = sl.first_order_end_moments(40e6, -20e6, 1000e3, 15.0)
+    M01, M02 = nc.first_order_end_moments(40e6, -20e6, 1000e3, 15.0)
     assert float(M02) == pytest.approx(55e6)
     assert float(M01) == pytest.approx(-5e6)
     # Negative larger moment: returned as a magnitude, M01 relative to it.
-    M01, M02 = sl.first_order_end_moments(-10e6, -40e6, 1000e3, 15.0)
+    M01, M02 = nc.first_order_end_moments(-10e6, -40e6, 1000e3, 15.0)
     assert float(M02) == pytest.approx(55e6)
     assert float(M01) == pytest.approx(25e6)
     # Imperfection switched off for this axis (5.8.9(2)).
-    M01, M02 = sl.first_order_end_moments(40e6, -20e6, 1000e3, 15.0, include_imperfection=False)
+    M01, M02 = nc.first_order_end_moments(40e6, -20e6, 1000e3, 15.0, include_imperfection=False)
     assert (float(M01), float(M02)) == (-20e6, 40e6)
 
 
@@ -239,7 +245,7 @@ def test_first_order_end_moments_orders_and_adds_imperfection():
 )
 def test_Kr_eq_5_36_by_hand(n, omega, Kr):
     """EN 1992-1-1 Eq. (5.36): Kr = (nu - n)/(nu - nbal) <= 1, nu = 1 + omega."""
-    assert float(sl.Kr(n, omega)) == pytest.approx(Kr)
+    assert float(nc.Kr(n, omega)) == pytest.approx(Kr)
 
 
 @pytest.mark.parametrize(
@@ -253,37 +259,37 @@ def test_Kr_eq_5_36_by_hand(n, omega, Kr):
 )
 def test_Kphi_eq_5_37_by_hand(phi_ef, fck, lam, Kphi):
     """EN 1992-1-1 Eq. (5.37): K_phi = 1 + beta phi_ef >= 1, beta = 0.35 + fck/200 - lambda/150."""
-    assert float(sl.Kphi(phi_ef, fck, lam)) == pytest.approx(Kphi)
+    assert float(nc.Kphi(phi_ef, fck, lam)) == pytest.approx(Kphi)
 
 
 @given(n=st.floats(-1.0, 5.0), omega=st.floats(0.0, 3.0))
 def test_Kr_in_unit_interval(n, omega):
-    k = float(sl.Kr(n, omega))
+    k = float(nc.Kr(n, omega))
     assert 0.0 <= k <= 1.0
 
 
 def test_curvature_chain_closed_form():
     # 1/r0 = (435/200000)/(0.45*250); e2 = (1/r) l0^2 / 10 (Eqs. (5.33), (5.34)).
-    r0 = sl.inv_r0(sl.eps_yd(435.0), 250.0)
+    r0 = nc.inv_r0(nc.eps_yd(435.0), 250.0)
     assert float(r0) == pytest.approx(435.0 / 200000.0 / 112.5)
-    e = sl.e2(sl.inv_r(0.8, 1.1, r0), 5000.0)
+    e = nc.e2(nc.inv_r(0.8, 1.1, r0), 5000.0)
     assert float(e) == pytest.approx(0.8 * 1.1 * float(r0) * 25e6 / 10.0)
-    assert float(sl.M2(1000e3, e)) == pytest.approx(1000e3 * float(e))
+    assert float(nc.M2(1000e3, e)) == pytest.approx(1000e3 * float(e))
 
 
 def test_e2_rejects_c_below_8():
     with pytest.raises(ValueError, match="c must be >= 8"):
-        sl.e2(1e-5, 5000.0, c=7.0)
+        nc.e2(1e-5, 5000.0, c=7.0)
 
 
 def _hand_example(**kw):
     args = dict(
         NEd=1200e3, M_top=40e6, M_bottom=-20e6, l0=6000.0, h=300.0, d=250.0,
         Ac=300.0 * 300.0, As=4 * math.pi * 20.0**2 / 4, fck=30.0, phi_ef=1.2,
-        imperfection=sl.ImperfectionMethod.SIMPLIFIED,
+        imperfection=im.ImperfectionMethod.SIMPLIFIED,
     )
     args.update(kw)
-    return sl.nominal_curvature(**args)
+    return nc.nominal_curvature(**args)
 
 
 def test_nominal_curvature_worked_example_by_hand():
@@ -339,10 +345,10 @@ def test_nominal_curvature_vectorised_equals_scalar_calls():
     Mb = np.array([-20e6, 30e6, 60e6, 5e6])
     l0 = np.array([6000.0, 3000.0, 4500.0, 2500.0])
     h = np.array([300.0, 350.0, 400.0, 300.0])
-    vec = sl.nominal_curvature(NEd, Mt, Mb, l0=l0, h=h, d=h - 50, Ac=h * h, As=2000.0, fck=35.0,
+    vec = nc.nominal_curvature(NEd, Mt, Mb, l0=l0, h=h, d=h - 50, Ac=h * h, As=2000.0, fck=35.0,
                                phi_ef=1.0, r_m_known=True)
     for k in range(4):
-        one = sl.nominal_curvature(NEd[k], Mt[k], Mb[k], l0=l0[k], h=h[k], d=h[k] - 50,
+        one = nc.nominal_curvature(NEd[k], Mt[k], Mb[k], l0=l0[k], h=h[k], d=h[k] - 50,
                                    Ac=h[k] ** 2, As=2000.0, fck=35.0, phi_ef=1.0, r_m_known=True)
         assert float(one.MEd) == pytest.approx(float(vec.MEd[k]))
         assert bool(one.slender) == bool(vec.slender[k])
@@ -356,7 +362,7 @@ def test_nominal_curvature_vectorised_equals_scalar_calls():
 def test_second_order_design_moment_bounds(M01, M02, M2):
     if abs(M01) > M02:
         M01, M02 = M02, abs(M01)
-    MEd = float(sl.design_moment_second_order(1e6, M01, M02, M2, 20.0))
+    MEd = float(nc.design_moment_second_order(1e6, M01, M02, M2, 20.0))
     assert MEd >= M02 - 1e-6
     assert MEd >= 0.4 * M02 + M2 - 1e-6
     assert MEd >= 1e6 * 20.0
@@ -369,27 +375,27 @@ def test_second_order_design_moment_bounds(M01, M02, M2):
 
 def test_magnification_eq_5_28_closed_form():
     # beta = pi^2/8 = 1.2337; NB/NEd = 5 -> 1 + 1.2337/4 (Eqs. (5.28), (5.29)).
-    assert float(sl.magnification(100.0, 1e6, 5e6, c0=8.0)) == pytest.approx(100 * (1 + math.pi**2 / 32))
+    assert float(ns.magnification(100.0, 1e6, 5e6, c0=8.0)) == pytest.approx(100 * (1 + math.pi**2 / 32))
     # c0 = pi^2 (beta = 1) gives 1/(1 - NEd/NB) (Eq. (5.30)).
-    assert float(sl.magnification(100.0, 1e6, 5e6, c0=math.pi**2)) == pytest.approx(125.0)
+    assert float(ns.magnification(100.0, 1e6, 5e6, c0=math.pi**2)) == pytest.approx(125.0)
 
 
 def test_magnification_rejects_buckled_member():
     with pytest.raises(ValueError, match="buckling load"):
-        sl.magnification(100.0, 6e6, 5e6)
+        ns.magnification(100.0, 6e6, 5e6)
 
 
 def test_nominal_stiffness_by_hand():
     # k1 = sqrt(30/20) = 1.2247; k2 = min(0.5*60/170, 0.2) = 0.1765;
     # Kc = k1 k2/(1 + 1) = 0.1081; Ecd = 33000/1.2 = 27500 (Eqs. (5.20)-(5.24)).
-    EI = sl.EI_nominal(30.0, 33000.0, 1e9, 1e7, 0.5, 60.0, 1.0, 0.01)
+    EI = ns.EI_nominal(30.0, 33000.0, 1e9, 1e7, 0.5, 60.0, 1.0, 0.01)
     Kc = math.sqrt(1.5) * (30.0 / 170.0) / 2.0
     assert float(EI) == pytest.approx(Kc * 27500.0 * 1e9 + 200000.0 * 1e7)
     # Eq. (5.26): Kc = 0.3/(1 + 0.5 phi_ef), Ks = 0.
-    EI2 = sl.EI_nominal(30.0, 33000.0, 1e9, 1e7, 0.5, 60.0, 1.0, 0.01, simplified=True)
+    EI2 = ns.EI_nominal(30.0, 33000.0, 1e9, 1e7, 0.5, 60.0, 1.0, 0.01, simplified=True)
     assert float(EI2) == pytest.approx(0.2 * 27500.0 * 1e9)
-    assert float(sl.k2_stiffness(1.0)) == pytest.approx(0.2)  # 0.30 capped at 0.20
-    assert float(sl.NB_buckling(1e13, 5000.0)) == pytest.approx(math.pi**2 * 1e13 / 25e6)
+    assert float(ns.k2_stiffness(1.0)) == pytest.approx(0.2)  # 0.30 capped at 0.20
+    assert float(ns.NB_buckling(1e13, 5000.0)) == pytest.approx(math.pi**2 * 1e13 / 25e6)
 
 
 # --------------------------------------------------------------------------
@@ -405,4 +411,4 @@ def test_bad_input_raises_with_value_and_unit():
     with pytest.raises(ValueError, match="r_m"):
         sl.C_moment_ratio(1.5)
     with pytest.raises(ValueError):
-        sl.ei(3000.0, "nonsense")
+        im.ei(3000.0, "nonsense")

@@ -4,14 +4,9 @@ from pathlib import Path
 
 import pytest
 
+from optimizer.building.actions_csv import ACTION_COLUMNS, read_actions_csv, write_actions_csv
 from optimizer.building.scenario import load_scenario
-from optimizer.building.takedown import (
-    ACTION_COLUMNS,
-    read_actions_csv,
-    scenario_actions,
-    takedown,
-    write_actions_csv,
-)
+from optimizer.building.takedown import scenario_actions, takedown
 from optimizer.errors import InputError
 
 ROOT = Path(__file__).resolve().parent.parent

@@ -9,7 +9,8 @@ offices (category B) 2.5 kPa, façade 5 kN/m.
 import pytest
 
 from optimizer.building.graph import build_stack_graph, cell_above, cell_below
-from optimizer.building.scenario import CellId, load_scenario_text
+from optimizer.building.model import CellId
+from optimizer.building.scenario import load_scenario_text
 from optimizer.building.takedown import takedown
 
 HAND = """

@@ -3,7 +3,7 @@
 import pytest
 from shapely.geometry import Polygon, box
 
-from optimizer.building.takedown import tributary_areas
+from optimizer.building.tributary import tributary_areas
 
 
 def _grid(nx, ny, bx, by):

@@ -14,7 +14,8 @@ import numpy as np
 from shapely.geometry import box
 from shapely.ops import unary_union
 
-from optimizer.building.scenario import Scenario, load_scenario_text
+from optimizer.building.model import Scenario
+from optimizer.building.scenario import load_scenario_text
 
 __all__ = ["TowerSpec", "generate_tower_toml", "generate_tower"]
 

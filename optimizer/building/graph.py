@@ -18,7 +18,7 @@ from collections.abc import Iterator
 
 import networkx as nx
 
-from optimizer.building.scenario import CellId, Scenario, SupportKind
+from optimizer.building.model import CellId, Scenario, SupportKind
 from optimizer.errors import InputError
 
 __all__ = [

@@ -27,7 +27,7 @@ from dataclasses import dataclass
 import pandas as pd
 
 from design.params import NationalParameters
-from optimizer.building.scenario import Scenario
+from optimizer.building.model import Scenario
 
 __all__ = ["plausibility_warnings", "LIMITS", "SectionCapacity", "spec_length_problem", "spec_side_problem",
            "spec_force_problem", "spec_moment_problem", "spec_warnings"]

@@ -47,15 +47,15 @@ from design import detailing
 from design.cover import cmin, cmin_b, cmin_dur_for, cnom, parse_exposure
 from design.fire import TABLE_5_2A, FireRating
 from design.materials import Concrete, Reinforcement, parse_concrete_class
-from design.member import extra_ties
 from design.params import NationalParameters
 from design.resistance import DesignSection
+from design.section_data import extra_ties
 from design.sections import CircBars, CircSection, RectBars, RectSection, parse_bar_notation
-from optimizer.building.scenario import _MISSING, Scenario, _Table
+from optimizer.building import MISSING, Scenario, TomlTable
 from optimizer.errors import InputError, reject_unknown_keys
 
 __all__ = ["Shape", "CatalogueSpec", "ColumnType", "Catalogue", "read_catalogue_spec", "build_catalogue",
-           "reject_unknown"]
+           "reject_unknown", "type_arrays", "STEEL_DENSITY", "LINK_DIAS"]
 
 LINK_DIAS = (8.0, 10.0, 12.0, 16.0)
 STEEL_DENSITY = 7850.0  # kg/m3, nominal mass of reinforcing steel (EN 10080 nominal mass)
@@ -139,9 +139,9 @@ class Catalogue:
         return [t.design for t in self.types]
 
 
-def _floats(t: _Table, key: str, default: tuple[float, ...]) -> tuple[float, ...]:
+def _floats(t: TomlTable, key: str, default: tuple[float, ...]) -> tuple[float, ...]:
     value = t.raw(key, required=False)
-    if value is _MISSING:
+    if value is MISSING:
         return default
     if not isinstance(value, list) or not value or not all(
             isinstance(v, (int, float)) and not isinstance(v, bool) and v > 0 for v in value):
@@ -154,7 +154,7 @@ def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:
     raw = scenario.reserved.get("catalogue")
     if raw is None:
         return CatalogueSpec()
-    t = _Table(scenario.source, "catalogue", dict(raw))
+    t = TomlTable(scenario.source, "catalogue", dict(raw))
     kw: dict = {}
     sizes = t.table("sizes_mm", required=False)
     if sizes is not None:
@@ -169,7 +169,7 @@ def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:
         except ValueError:
             raise InputError(t.file, t.key("shapes"), shapes,
                              "a list of 'square', 'rectangular', 'circular'") from None
-    elif shapes is not _MISSING:
+    elif shapes is not MISSING:
         raise InputError(t.file, t.key("shapes"), shapes, "a list of 'square', 'rectangular', 'circular'")
     kw["aspects"] = _floats(t, "aspects", CatalogueSpec.aspects)
     for key, name in (("max_bar_pitch_mm", "max_bar_pitch"),
@@ -185,10 +185,10 @@ def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:
     excl = t.raw("exclude", required=False)
     if isinstance(excl, list):
         kw["exclude"] = tuple(str(e) for e in excl)
-    elif excl is not _MISSING:
+    elif excl is not MISSING:
         raise InputError(t.file, t.key("exclude"), excl, 'a list of sizes such as "400x400" or "D600"')
     listed = t.raw("types", required=False)
-    if listed is not _MISSING and not isinstance(listed, list):
+    if listed is not MISSING and not isinstance(listed, list):
         raise InputError(t.file, t.key("types"), listed, "an array of tables {b, h, bars} or {diameter, bars}")
     explicit = []
     for i, item in enumerate(listed if isinstance(listed, list) else []):
@@ -201,7 +201,7 @@ def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:
         explicit.append((item.get("b"), item.get("h"), item.get("diameter"), item["bars"]))
     kw["explicit"] = tuple(explicit)
     grades = t.raw("grades", required=False)
-    if grades is not _MISSING:
+    if grades is not MISSING:
         if not isinstance(grades, list) or not grades:
             raise InputError(t.file, t.key("grades"), grades, 'a list of concrete classes, e.g. ["C40/50", "C50/60"]')
         fcks = []
@@ -219,7 +219,7 @@ def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:
         raise InputError(scenario.source, "catalogue", dict(raw), str(exc)) from None
 
 
-def reject_unknown(t: _Table, allowed: set[str]) -> None:
+def reject_unknown(t: TomlTable, allowed: set[str]) -> None:
     """InputError for the first key of ``t`` not in ``allowed``, with a "did you mean" suggestion."""
     reject_unknown_keys(t.file, t.path, t.data, allowed)
 

@@ -25,11 +25,13 @@ from dataclasses import dataclass, field
 import numpy as np
 import pandas as pd
 
-from design import detailing, laps, slenderness
+from design import detailing, laps
 from design.fire import FireRating
-from design.member import CheckSettings, ColumnActions, SectionData, check_members
+from design.member import CheckSettings, ColumnActions, check_members
 from design.resistance import SectionBatch
-from optimizer.building.scenario import Orientation, Scenario, fire_requirement
+from design.second_order import slenderness
+from design.section_data import SectionData
+from optimizer.building import Orientation, Scenario, fire_requirement
 from optimizer.candidates.catalogue import STEEL_DENSITY, Catalogue, type_arrays
 from optimizer.errors import InputError
 

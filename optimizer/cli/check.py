@@ -30,13 +30,13 @@ from typing import Any
 
 import numpy as np
 
-from design import slenderness
 from design.cover import parse_exposure
 from design.creep import CementClass, CreepSettings
 from design.fire import FireRating
 from design.member import BiaxialMethod, CheckSettings, ColumnActions, MinEccentricity, check_column
 from design.results import CheckKind
-from design.slenderness import ImperfectionMethod
+from design.second_order import slenderness
+from design.second_order.imperfections import ImperfectionMethod
 from optimizer import CAUTION
 from optimizer.building.plausibility import spec_length_problem, spec_moment_problem, spec_warnings
 from optimizer.cli.spec import SECTION_KEYS, SectionSpec, check_keys, load_spec_file, number, section_spec

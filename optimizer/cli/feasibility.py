@@ -21,9 +21,9 @@ from optimizer.building.scenario import load_scenario
 from optimizer.building.takedown import scenario_actions
 from optimizer.candidates.catalogue import Catalogue, build_catalogue
 from optimizer.candidates.feasibility import Feasibility, feasibility, undesignable_frame, undesignable_lines
-from optimizer.cli.takedown import Progress
 from optimizer.errors import InputError
 from optimizer.pipeline.settings import read_run_settings
+from optimizer.reporting.progress import Progress
 
 __all__ = ["add_parser", "run", "catalogue_frame", "lower_bound_frame"]
 
@@ -83,7 +83,7 @@ def run(args: argparse.Namespace) -> int:
         raise InputError("--out", "--out", args.out, "a folder")
     if Path(args.scenario).resolve().parent == out.resolve():
         raise InputError("--out", "--out", args.out, "a folder other than the scenario's own")
-    progress = Progress(sys.stderr, enabled=not args.quiet)
+    progress = Progress(sys.stderr, quiet=args.quiet, delay_s=0.5)
     actions = scenario_actions(scenario)
     cat = build_catalogue(scenario)
     fe = feasibility(scenario, cat, actions, progress=progress, fire_rule=settings.fire_rule)

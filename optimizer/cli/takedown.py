@@ -17,40 +17,14 @@ from __future__ import annotations
 
 import argparse
 import sys
-import time
 from pathlib import Path
 from typing import TextIO
 
-from optimizer.building.scenario import Scenario, load_scenario
-from optimizer.building.takedown import TakedownResult, read_actions_csv, takedown, write_actions_csv
+from optimizer.building import Scenario, TakedownResult, load_scenario, read_actions_csv, takedown, write_actions_csv
 from optimizer.errors import ColstackError
+from optimizer.reporting.progress import Progress
 
-__all__ = ["add_parser", "run", "Progress", "summary_text"]
-
-
-class Progress:
-    """Progress display on a stream, shown only once a run takes more than ``delay_s``."""
-
-    def __init__(self, stream: TextIO, enabled: bool = True, delay_s: float = 0.5) -> None:
-        self.stream = stream
-        self.enabled = enabled
-        self.delay_s = delay_s
-        self.start = time.monotonic()
-        self.last = 0.0
-        self.shown = False
-
-    def __call__(self, stage: str, done: int, total: int) -> None:
-        """Report ``done`` of ``total`` steps of ``stage``."""
-        if not self.enabled:
-            return
-        now = time.monotonic()
-        if now - self.start < self.delay_s or (now - self.last < 0.1 and done < total):
-            return
-        self.last = now
-        self.shown = True
-        end = "\n" if done >= total else ""
-        self.stream.write(f"\r  {stage}: {done}/{total}{end}")
-        self.stream.flush()
+__all__ = ["add_parser", "run", "summary_text"]
 
 
 def add_parser(subparsers: argparse._SubParsersAction) -> argparse.ArgumentParser:
@@ -120,7 +94,7 @@ def _execute(args: argparse.Namespace, err: TextIO) -> list[Path]:
     """Read and compute everything first, then write all files at once into a fresh folder."""
     from optimizer.reporting.outputs import atomic_folder
 
-    progress = Progress(err, enabled=not args.quiet)
+    progress = Progress(err, quiet=args.quiet, delay_s=0.5)
     scenario = load_scenario(args.scenario)
     out = Path(args.out)
     protect = [Path(args.scenario).resolve().parent]

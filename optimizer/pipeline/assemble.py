@@ -12,8 +12,7 @@ import dataclasses
 import numpy as np
 
 from design.materials import parse_concrete_class
-from optimizer.building.graph import build_stack_graph, cell_above
-from optimizer.building.scenario import Orientation, Scenario
+from optimizer.building import Orientation, Scenario, build_stack_graph, cell_above
 from optimizer.candidates.catalogue import STEEL_DENSITY, type_arrays
 from optimizer.candidates.costs import candidate_cost_carbon
 from optimizer.candidates.feasibility import Feasibility

@@ -17,17 +17,17 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from design.member import MemberChecks, SectionData
+from design.member import MemberChecks
 from design.resistance import SectionBatch
+from design.section_data import SectionData
 from optimizer import __version__
-from optimizer.building.scenario import Scenario, load_scenario
-from optimizer.building.takedown import TakedownResult, read_actions_csv, takedown
+from optimizer.building import Scenario, TakedownResult, load_scenario, read_actions_csv, takedown
 from optimizer.candidates.catalogue import Catalogue, build_catalogue
 from optimizer.candidates.feasibility import Feasibility, check_pairs, check_settings_for, feasibility
 from optimizer.errors import DesignImpossible, InputError
 from optimizer.pipeline.assemble import to_problem
 from optimizer.pipeline.settings import RunSettings, read_run_settings
-from optimizer.schedule.problem import Schedule, ScheduleProblem
+from optimizer.schedule.problem import Schedule, ScheduleProblem, Status
 
 __all__ = ["RunResult", "TypeUse", "run_scenario", "Stage"]
 
@@ -116,7 +116,8 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
         InputError: bad scenario (exit 2).
         DesignImpossible: a cell no type can carry, or no schedule satisfies the rules (exit 3).
     """
-    from optimizer.schedule import diagnose, heuristic, ip
+    from optimizer.schedule import diagnose, heuristic
+    from optimizer.schedule.solve import lower_bound_premium
 
     say = progress or (lambda *_: None)
     timings: dict[str, float] = {}
@@ -153,7 +154,7 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
     problem = to_problem(fe, scenario, settings)
     opts = settings.solver
     if (formulation or opts.formulation) == "paths":
-        from optimizer.schedule.paths import applicable
+        from optimizer.schedule.pathmodel import applicable
 
         why = applicable(problem)
         if why is not None:
@@ -170,7 +171,7 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
                                    catalogue=cat)
         raise DesignImpossible(f"the solver found no schedule within its limits ({schedule.status}); best bound "
                                f"{schedule.bound:.6g}", details=list(schedule.notes), feasibility=fe, catalogue=cat)
-    lb, premium = ip.lower_bound_premium(problem, schedule)
+    lb, premium = lower_bound_premium(problem, schedule)
     base = heuristic.baseline(problem)
 
     t = time.perf_counter()
@@ -196,7 +197,7 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
         warnings.append(f"fire resistance not verified by EN 1992-1-2 5.3.2 method A in {unverified.size} cell(s) "
                         f"(outside its conditions of use; verify by another method): {names}{more}")
     warnings += crank_warnings(problem, fe, cand)
-    if schedule.status not in ("optimal", "within gap"):
+    if schedule.status not in (Status.OPTIMAL, Status.WITHIN_GAP):
         warnings.append(f"solver stopped with status '{schedule.status}': proven gap {100 * schedule.gap:.2f} % "
                         f"(requested {100 * opts.gap_rel:g} %)")
     # the takedown states lateral stability too; the run's own sentence covers both routes, once
@@ -237,15 +238,14 @@ def _solve_child(conn, problem, solver, time_limit_s, gap_rel, max_types, warm):
     """Child process: the integer program, with its result sent back through ``conn``."""
     import os
 
-    from optimizer.schedule import ip
+    from optimizer.schedule.solve import SolveOptions, solve
 
     devnull = os.open(os.devnull, os.O_WRONLY)
     os.dup2(devnull, 1)  # the solver library prints a banner on stdout; the user's terminal is the parent's
 
     try:
-        conn.send(ip.solve(problem, solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel, max_types=max_types,
-                           method="compact",
-                           warm_start=warm))
+        conn.send(solve(problem, SolveOptions(solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel,
+                                              formulation="compact"), max_types=max_types, warm_start=warm))
     except Exception as exc:  # noqa: BLE001 - reported to the parent as a note
         conn.send(exc)
     finally:
@@ -273,28 +273,26 @@ def optimise(problem: ScheduleProblem, solver: str, time_limit_s: float, gap_rel
     """
     import multiprocessing as mp
 
-    from optimizer.schedule import heuristic, ip
+    from optimizer.schedule import heuristic
+    from optimizer.schedule.pathmodel import applicable
+    from optimizer.schedule.solve import SolveOptions, greedy_start, solve
 
     say = progress or (lambda _m: None)
     t0 = time.perf_counter()
     r = problem.rules
     cap = max_types if max_types is not None else r.max_types
-    coupled = (cap is not None or r.max_sections is not None or r.price_per_type > 0 or r.price_per_section > 0
-               or r.max_grades is not None or r.max_grade_changes is not None)
-    if not coupled:
-        return ip.solve(problem, solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel, max_types=max_types,
-                        progress=say)
+    if not (r.couples_stacks or max_types is not None):
+        return solve(problem, SolveOptions(solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel),
+                     max_types=max_types, progress=say)
     if formulation != "compact":
-        from optimizer.schedule import paths
-
-        why = paths.applicable(problem)
-        if why is None:  # the same route as ip.solve: greedy start under caps, then column generation
-            return ip.solve(problem, solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel, max_types=max_types,
-                            progress=say, method="paths")
+        why = applicable(problem)
+        if why is None:  # the same route as solve: greedy start under caps, then column generation
+            return solve(problem, SolveOptions(solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel,
+                                               formulation="paths"), max_types=max_types, progress=say)
         if formulation == "paths":
             raise ValueError(f"the path formulation does not apply: {why}")
         say(f"compact formulation: {why}")
-    warm = ip.greedy_start(problem, cap, time_limit_s, share=0.3)
+    warm = greedy_start(problem, cap, time_limit_s, share=0.3)
     lb = heuristic.cellwise_lower_bound(problem).value
     if warm is not None:
         fig = heuristic.figures(problem, warm.cand)
@@ -321,14 +319,15 @@ def optimise(problem: ScheduleProblem, solver: str, time_limit_s: float, gap_rel
         if warm is None or best.objective <= heuristic.figures(problem, warm.cand).objective + 1e-9:
             return best
     if warm is None:
-        return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status="no schedule", objective=np.inf,
+        return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=Status.NO_SCHEDULE, objective=np.inf,
                         bound=lb, gap=np.inf, solver=f"{solver} (stopped)", seconds=time.perf_counter() - t0)
     obj = heuristic.figures(problem, warm.cand).objective
     bound = max(lb, best.bound if best is not None and np.isfinite(best.bound) else -np.inf)
     gap = max(0.0, (obj - bound) / max(abs(obj), 1e-9))
-    return Schedule(cand=np.asarray(warm.cand), status="optimal" if gap <= 1e-9 else "time limit", objective=obj,
-                    bound=bound, gap=gap, solver=f"greedy rationalisation; {solver} integer program within "
-                    f"{time_limit_s:g} s did not improve it", seconds=time.perf_counter() - t0,
+    return Schedule(cand=np.asarray(warm.cand), status=Status.OPTIMAL if gap <= 1e-9 else Status.TIME_LIMIT,
+                    objective=obj, bound=bound, gap=gap,
+                    solver=f"greedy rationalisation; {solver} integer program within {time_limit_s:g} s did not "
+                    "improve it", seconds=time.perf_counter() - t0,
                     notes=("bound: cell-wise lower bound or the solver's, whichever is higher",))
 
 
@@ -366,7 +365,7 @@ def crank_warnings(problem, fe: Feasibility, cand: np.ndarray) -> list[str]:
     fit in the clear height of the storey below, separate starter bars (step_rule = "starters") or a
     smaller step are needed.
     """
-    from optimizer.schedule.heuristic import step_per_face
+    from optimizer.schedule.prepared import step_per_face
 
     t = problem.types
     typ = fe.cand_type[np.asarray(cand)]
@@ -389,8 +388,7 @@ def crank_warnings(problem, fe: Feasibility, cand: np.ndarray) -> list[str]:
 
 def _merge(parts: list[tuple[np.ndarray, MemberChecks]], n: int) -> MemberChecks:
     """Put per-group check results back in cell order (checks present in a group only are padded)."""
-    from design.member import CheckColumn
-    from design.results import CheckKind
+    from design.results import CheckColumn, CheckKind
 
     names: list[tuple[str, str, str]] = []
     for _, res in parts:

@@ -18,7 +18,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from optimizer.building.scenario import _MISSING, Scenario, _Table
+from optimizer.building.model import Scenario
+from optimizer.building.tables import MISSING, TomlTable
 from optimizer.candidates.catalogue import reject_unknown
 from optimizer.candidates.costs import (
     DEFAULT_CARBON_CONCRETE,
@@ -36,7 +37,7 @@ class SolverOptions:
     solver: str = "highs"
     time_limit_s: float = 120.0
     gap_rel: float = 0.01
-    formulation: str = "auto"  # "auto" (paths where valid), "paths" or "compact"; see optimizer.schedule.ip.solve
+    formulation: str = "auto"  # "auto" (paths where valid), "paths" or "compact"; see optimizer.schedule.solve.solve
 
 
 @dataclass(frozen=True)
@@ -51,9 +52,9 @@ class RunSettings:
     pinned: tuple[tuple[str, str, str, str, str | None], ...] = ()  # (stack, level, section, bars, grade)
 
 
-def _grade_table(t: _Table, key: str) -> dict[float, float] | None:
+def _grade_table(t: TomlTable, key: str) -> dict[float, float] | None:
     raw = t.raw(key, required=False)
-    if raw is _MISSING:
+    if raw is MISSING:
         return None
     if not isinstance(raw, dict) or not raw:
         raise InputError(t.file, t.key(key), raw, 'a table by grade, e.g. {"C30/37" = 150.0}')
@@ -79,7 +80,7 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
     fire_rule = "flag"
     pinned: tuple = ()
     if "rules" in res:
-        t = _Table(src, "rules", dict(res["rules"]))
+        t = TomlTable(src, "rules", dict(res["rules"]))
         for key in ("monotone_sections", "monotone_bars", "monotone_grade"):
             v = t.bool_(key, required=False)
             if v is not None:
@@ -111,7 +112,7 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
             if v is not None:
                 rules_kw[key] = v
         groups = t.raw("groups", required=False)
-        if groups is not _MISSING:
+        if groups is not MISSING:
             if not isinstance(groups, list) or not all(isinstance(g, list) and len(g) >= 2 for g in groups):
                 raise InputError(src, "rules.groups", groups, 'a list of stack lists, e.g. [["A1", "A6"]]')
             known = {s.id for s in scenario.stacks}
@@ -133,7 +134,7 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
     objective = Objective.STEEL
     solver = SolverOptions()
     if "optimizer" in res:
-        t = _Table(src, "optimizer", dict(res["optimizer"]))
+        t = TomlTable(src, "optimizer", dict(res["optimizer"]))
         objective = t.choice("objective", Objective, required=False, default=Objective.STEEL)
         name = t.str_("solver", required=False, default="highs")
         if name not in ("highs", "cbc"):
@@ -147,7 +148,7 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
         reject_unknown(t, {"objective", "solver", "time_limit_s", "gap", "formulation"})
     costs = CostFactors()
     if "costs" in res:
-        t = _Table(src, "costs", dict(res["costs"]))
+        t = TomlTable(src, "costs", dict(res["costs"]))
         kw: dict = {}
         for key in ("steel_per_t", "formwork_per_m2", "plan_area_per_m2", "steel_carbon_per_kg"):
             v = t.num(key, required=False, minimum=0)
@@ -171,10 +172,10 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
     return RunSettings(Rules(**rules_kw), objective, solver, costs, fire_rule, pinned)
 
 
-def _read_pinned(scenario: Scenario, t: _Table) -> tuple:
+def _read_pinned(scenario: Scenario, t: TomlTable) -> tuple:
     """``pinned = [{stack, level, section, bars, grade?}]``: cells that must take a given type."""
     raw = t.raw("pinned", required=False)
-    if raw is _MISSING:
+    if raw is MISSING:
         return ()
     if not isinstance(raw, list):
         raise InputError(t.file, t.key("pinned"), raw,

@@ -21,7 +21,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from design.member import extra_ties
+from design.section_data import extra_ties
 from design.sections import CircSection
 from optimizer import CAUTION, __version__
 from optimizer.errors import InputError

@@ -21,8 +21,7 @@ from matplotlib.path import Path as MplPath  # noqa: E402
 from shapely.geometry import Polygon  # noqa: E402
 from shapely.geometry.base import BaseGeometry  # noqa: E402
 
-from optimizer.building.scenario import Scenario  # noqa: E402
-from optimizer.building.takedown import LevelTributary  # noqa: E402
+from optimizer.building import LevelTributary, Scenario  # noqa: E402
 
 __all__ = ["distinct_floors", "plot_plan", "write_plans"]
 

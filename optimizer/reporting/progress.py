@@ -3,7 +3,9 @@
 ``Progress(stream)`` is called as ``progress(stage, done, total)``; with
 ``total == 0`` the stage is a message (for example a solver log line). Updates
 are throttled to a few per second. ``quiet`` silences the display;
-``log_json`` writes one JSON object per event to a file for machines.
+``delay_s`` keeps it silent for short runs (nothing is shown before that many
+seconds); ``log_json`` writes one JSON object per event to a file for machines.
+The one progress display of every command.
 """
 
 from __future__ import annotations
@@ -21,9 +23,10 @@ class Progress:
     """Stage-aware progress display (callable)."""
 
     def __init__(self, stream: TextIO | None = None, quiet: bool = False, log_json: str | Path | None = None,
-                 width: int = 28) -> None:
+                 width: int = 28, delay_s: float = 0.0) -> None:
         self.stream = stream or sys.stderr
         self.quiet = quiet
+        self.delay_s = delay_s
         self.width = width
         self.start = time.monotonic()
         self.stage_start = self.start
@@ -43,7 +46,7 @@ class Progress:
             self.log.write(json.dumps({"t_s": round(now - self.start, 3), "stage": stage, "done": done,
                                        "total": total}) + "\n")
             self.log.flush()
-        if self.quiet:
+        if self.quiet or now - self.start < self.delay_s:
             return
         finished = total > 0 and done >= total
         if not finished and now - self.last < 0.2:

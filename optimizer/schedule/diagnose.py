@@ -19,8 +19,10 @@ from dataclasses import replace
 
 import numpy as np
 
-from optimizer.schedule.heuristic import _levels_dp, _Prepared, _run_states, transition
-from optimizer.schedule.problem import Objective, Rules, ScheduleProblem, StepRule
+from optimizer.schedule.prepared import Prepared, run_states, transition
+from optimizer.schedule.problem import Objective, Rules, ScheduleProblem, Status, StepRule
+from optimizer.schedule.solve import SolveOptions, solve
+from optimizer.schedule.stackpaths import levels_dp
 
 __all__ = ["diagnose"]
 
@@ -83,7 +85,7 @@ def diagnose(problem: ScheduleProblem, time_limit_s: float = 30.0) -> list[str]:
         Sentences naming stack and levels.
     """
     p = problem
-    prep = _Prepared(replace(p, rules=replace(p.rules, groups=())))
+    prep = Prepared(replace(p, rules=replace(p.rules, groups=())))
     out: list[str] = []
     empty_cells = set()
     for c in range(p.n_cells):
@@ -97,7 +99,7 @@ def diagnose(problem: ScheduleProblem, time_limit_s: float = 30.0) -> list[str]:
             out.append(f"stack {stack}: level {level} is pinned to {p.types.mark[prep.pinned[c]]}, "
                        "which does not pass its checks there")
             empty_cells.add(c)
-    m = _run_states(p)
+    m = run_states(p)
     stack_ok: dict[int, bool] = {}
     for unit in prep.units:
         s = unit.stacks[0]
@@ -131,7 +133,7 @@ def diagnose(problem: ScheduleProblem, time_limit_s: float = 30.0) -> list[str]:
             stack_ok[s] = False
             continue
         if m > 1:
-            feasible = any(_levels_dp(p, levels, m)[1] is not None for levels in unit.orients.values())
+            feasible = any(levels_dp(p, levels, m)[1] is not None for levels in unit.orients.values())
             if not feasible:
                 out.append(f"stack {name}: no schedule holds each section for at least {m} storeys between "
                            f"levels {p.cell_names[int(chain[0])][1]} and {p.cell_names[int(chain[-1])][1]}")
@@ -141,10 +143,9 @@ def diagnose(problem: ScheduleProblem, time_limit_s: float = 30.0) -> list[str]:
     if out:
         return out
     # groups
-    full = _Prepared(p)
+    full = Prepared(p)
     for text in full.problems:
         out.append(text)
-    index = {n: i for i, n in enumerate(p.stack_names)}
     for unit in full.units:
         if len(unit.stacks) < 2:
             continue
@@ -155,7 +156,7 @@ def diagnose(problem: ScheduleProblem, time_limit_s: float = 30.0) -> list[str]:
             for i, lv in enumerate(levels):
                 if len(lv.types) == 0 and first_empty is None:
                     first_empty = p.cell_names[int(unit.cells[i, 0])][1]
-            if _levels_dp(p, levels, m)[1] is not None:
+            if levels_dp(p, levels, m)[1] is not None:
                 feasible = True
         if not feasible:
             if first_empty is not None:
@@ -164,7 +165,6 @@ def diagnose(problem: ScheduleProblem, time_limit_s: float = 30.0) -> list[str]:
                 out.append(f"stacks {names} (grouped): each is buildable alone but no single schedule fits all "
                            f"of them from level {p.cell_names[int(unit.cells[0, 0])][1]} to "
                            f"{p.cell_names[int(unit.cells[-1, 0])][1]}")
-    del index
     if out:
         return out
     out += _cap_findings(p, time_limit_s)
@@ -173,8 +173,6 @@ def diagnose(problem: ScheduleProblem, time_limit_s: float = 30.0) -> list[str]:
 
 def _cap_findings(p: ScheduleProblem, time_limit_s: float) -> list[str]:
     """Compare the caps with the least number of types or sections any schedule needs (by the integer program)."""
-    from optimizer.schedule.ip import solve
-
     r = p.rules
     found = []
     zero = np.zeros(len(p.cand_cell))
@@ -187,8 +185,8 @@ def _cap_findings(p: ScheduleProblem, time_limit_s: float) -> list[str]:
         if cap is None:
             continue
         counting = replace(p, rules=rules, steel_kg=zero, cost=zero, carbon=zero, objective=Objective.STEEL)
-        res = solve(counting, time_limit_s=time_limit_s, gap_rel=0.0)
-        if res.status == "infeasible":
+        res = solve(counting, SolveOptions(time_limit_s=time_limit_s, gap_rel=0.0))
+        if res.status is Status.INFEASIBLE:
             found.append("no schedule exists even without the caps")
             break
         need = int(np.ceil(res.bound - 1e-6)) if np.isfinite(res.bound) else None

@@ -30,7 +30,7 @@ import numpy as np
 from design.params import NationalParameters
 from design.sections import bar_area
 
-__all__ = ["Objective", "StepRule", "Rules", "TypeTable", "ScheduleProblem", "Schedule"]
+__all__ = ["Objective", "StepRule", "Status", "Rules", "TypeTable", "ScheduleProblem", "Schedule"]
 
 
 class Objective(StrEnum):
@@ -47,6 +47,18 @@ class StepRule(StrEnum):
     LIMIT = "limit"  # larger steps are not allowed
     STARTERS = "starters"  # allowed, with separate starter bars whose mass is added
     FORBID_ANY = "forbid-any"  # no change of section at all along a stack
+
+
+class Status(StrEnum):
+    """Outcome of a solve or a heuristic, as reported in :attr:`Schedule.status`."""
+
+    OPTIMAL = "optimal"  # proven optimal (gap below 1e-6)
+    WITHIN_GAP = "within gap"  # stopped with the proven gap below the requested relative gap
+    TIME_LIMIT = "time limit"  # stopped by the time limit with a schedule; see the gap
+    NO_SCHEDULE = "no schedule"  # stopped by the time limit without a schedule
+    INFEASIBLE = "infeasible"  # proven: no schedule keeps every rule (see optimizer.schedule.diagnose)
+    HEURISTIC = "heuristic"  # a heuristic's schedule, no bound proven
+    BASELINE = "baseline"  # the rule-of-thumb schedule (optimizer.schedule.heuristic.baseline)
 
 
 @dataclass(frozen=True)
@@ -72,6 +84,16 @@ class Rules:
     # Default: the EN recommended value (NationalParameters.rho_max_lap, 0.08); the building's run sets
     # its parameter set's value. None switches the pair rule off (only for tests of other rules).
     lap_steel_ratio_max: float | None = NationalParameters.rho_max_lap
+
+    @property
+    def couples_stacks(self) -> bool:
+        """Whether a cap or price on types, sections or grades ties the stacks together.
+
+        Without one every stack (or group of stacks) can be scheduled on its own shortest path, which is then
+        the optimum. A cap on grade changes per stack counts too: the shortest paths do not model it.
+        """
+        return (self.max_types is not None or self.max_sections is not None or self.price_per_type > 0
+                or self.price_per_section > 0 or self.max_grades is not None or self.max_grade_changes is not None)
 
 
 @dataclass(frozen=True)
@@ -155,13 +177,21 @@ class ScheduleProblem:
 
 @dataclass(frozen=True)
 class Schedule:
-    """A solution: one candidate per cell, with the solver's account of it."""
+    """A solution: one candidate per cell, with the solver's account of it.
+
+    ``status`` accepts a :class:`Status` or its value ("optimal", "time limit", ...) and holds the
+    :class:`Status`, which compares equal to its value.
+    """
 
     cand: np.ndarray  # (n_cells,) candidate index chosen for each cell
-    status: str  # "optimal", "time limit", "heuristic", ...
+    status: Status
     objective: float
     bound: float
     gap: float  # relative gap proven by the solver (0 when optimal)
     solver: str
     seconds: float
     notes: tuple[str, ...] = ()
+
+    def __post_init__(self) -> None:
+        """Hold the status as a :class:`Status` (its value, a string, is converted; anything else is refused)."""
+        object.__setattr__(self, "status", Status(self.status))

@@ -20,8 +20,8 @@ path in the path master problem (see ``docs/integer_program.md``).
 The backward program (no run states: a relaxation) gives, with the forward
 one, the cheapest path through every row, for pruning.
 
-Compiled with numba; the numpy reference in :mod:`optimizer.schedule.heuristic`
-(``_levels_dp``) is held equal to it by the tests.
+Compiled with numba; the numpy reference :func:`optimizer.schedule.stackpaths.levels_dp`
+is held equal to it by the tests.
 """
 
 from __future__ import annotations

@@ -20,7 +20,7 @@ from dataclasses import dataclass
 import numpy as np
 import pandas as pd
 
-from optimizer.building.scenario import Scenario
+from optimizer.building import Scenario
 from optimizer.pipeline.run import RunResult, run_scenario
 from optimizer.studies.variants import grade_name, with_grade, with_reserved
 

@@ -35,7 +35,7 @@ from typing import Any
 import pandas as pd
 
 from optimizer import CAUTION, __version__
-from optimizer.building.scenario import Scenario, load_scenario_text
+from optimizer.building import Scenario, load_scenario_text
 from optimizer.errors import InputError, did_you_mean
 
 __all__ = ["STUDY_VARIABLES", "MAX_VARIANTS", "Study", "StudyVariant", "StudyOutcome", "load_study",

@@ -11,7 +11,7 @@ from types import MappingProxyType
 from typing import Any
 
 from design.materials import Concrete, parse_concrete_class
-from optimizer.building.scenario import Scenario
+from optimizer.building import Scenario
 from optimizer.errors import InputError
 
 __all__ = ["with_grade", "with_reserved", "grade_name"]

@@ -20,7 +20,7 @@ from __future__ import annotations
 from enum import StrEnum
 
 import numpy as np
-from numpy.typing import ArrayLike
+from numpy.typing import ArrayLike, NDArray
 
 from design.results import CheckResult
 
@@ -45,11 +45,11 @@ class SectionShape(StrEnum):
     ELLIPTICAL = "elliptical"
 
 
-def _arr(x: ArrayLike) -> np.ndarray:
+def _arr(x: ArrayLike) -> NDArray[np.float64]:
     return np.asarray(x, dtype=float)
 
 
-def slenderness_ratio_ok(lam_y: ArrayLike, lam_z: ArrayLike) -> np.ndarray:
+def slenderness_ratio_ok(lam_y: ArrayLike, lam_z: ArrayLike) -> NDArray[np.bool_]:
     """Whether lambda_y/lambda_z <= 2 and lambda_z/lambda_y <= 2.
 
     EN 1992-1-1, Eq. (5.38a)
@@ -69,7 +69,7 @@ def slenderness_ratio_ok(lam_y: ArrayLike, lam_z: ArrayLike) -> np.ndarray:
 
 def relative_eccentricity_ok(
     MEdy: ArrayLike, MEdz: ArrayLike, NEd: ArrayLike, iy: ArrayLike, iz: ArrayLike
-) -> np.ndarray:
+) -> NDArray[np.bool_]:
     """Whether (ey/heq)/(ez/beq) <= 0.2 or (ez/beq)/(ey/heq) <= 0.2.
 
     EN 1992-1-1, Eq. (5.38b)
@@ -98,7 +98,7 @@ def relative_eccentricity_ok(
     beq = _arr(iy) * np.sqrt(12.0)  # = h for a rectangle
     heq = _arr(iz) * np.sqrt(12.0)  # = b for a rectangle
     ry, rz = ey / heq, ez / beq
-    return np.minimum(ry, rz) <= 0.2 * np.maximum(ry, rz)
+    return np.minimum(ry, rz) <= 0.2 * np.maximum(ry, rz)  # type: ignore[no-any-return]  # numpy stubs: comparison of NDArray[Any] values is Any
 
 
 def no_biaxial_check_needed(
@@ -109,7 +109,7 @@ def no_biaxial_check_needed(
     NEd: ArrayLike,
     iy: ArrayLike,
     iz: ArrayLike,
-) -> np.ndarray:
+) -> NDArray[np.bool_]:
     """Whether both Eq. (5.38a) and Eq. (5.38b) hold (no further check).
 
     EN 1992-1-1, 5.8.9(3)
@@ -130,7 +130,7 @@ def no_biaxial_check_needed(
 
 def exponent_a(
     NEd: ArrayLike, NRd: ArrayLike, shape: SectionShape = SectionShape.RECTANGULAR
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Exponent a of the biaxial interaction (-).
 
     EN 1992-1-1, 5.8.9(4), Eq. (5.39)
@@ -158,7 +158,7 @@ def exponent_a(
 
 def biaxial_interaction(
     MEdy: ArrayLike, MRdy: ArrayLike, MEdz: ArrayLike, MRdz: ArrayLike, a: ArrayLike
-) -> np.ndarray:
+) -> NDArray[np.float64]:
     """Interaction value (MEdz/MRdz)^a + (MEdy/MRdy)^a (-); <= 1 passes.
 
     EN 1992-1-1, Eq. (5.39)
@@ -221,7 +221,7 @@ _BETA_N = np.array([0.0, 0.1, 0.2, 0.3, 0.4, 0.5, 0.6])
 _BETA_VALUES = np.array([1.00, 0.88, 0.77, 0.65, 0.53, 0.42, 0.30])
 
 
-def beta_enhanced(NEd: ArrayLike, b: ArrayLike, h: ArrayLike, f_cu: ArrayLike) -> np.ndarray:
+def beta_enhanced(NEd: ArrayLike, b: ArrayLike, h: ArrayLike, f_cu: ArrayLike) -> NDArray[np.float64]:
     """Coefficient beta of the enhanced uniaxial moment method (-).
 
     BS 8110-1:1997, 3.8.4.5, Table 3.22 (recalled from memory)
@@ -247,7 +247,7 @@ def beta_enhanced(NEd: ArrayLike, b: ArrayLike, h: ArrayLike, f_cu: ArrayLike) -
         msg = f"b, h and f_cu must be positive, got b={b} mm, h={h} mm, f_cu={f_cu} MPa"
         raise ValueError(msg)
     ratio = np.maximum(_arr(NEd), 0.0) / (b * h * f_cu)
-    return np.interp(ratio, _BETA_N, _BETA_VALUES)
+    return np.interp(ratio, _BETA_N, _BETA_VALUES)  # type: ignore[no-any-return]  # numpy stubs: np.interp of an NDArray[Any] is Any
 
 
 def enhanced_uniaxial_moment(
