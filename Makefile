@@ -6,7 +6,7 @@ STAMP_RUN := $(VENV)/.stamp-run
 STAMP_TEST := $(VENV)/.stamp-test
 STAMP_BENCH := $(VENV)/.stamp-bench
 
-.PHONY: demo test bench bench-large lint clean
+.PHONY: demo test test-fast bench bench-large lint clean
 
 $(BIN)/python:
 	$(PY) -m venv $(VENV)
@@ -27,9 +27,20 @@ $(STAMP_BENCH): pyproject.toml | $(BIN)/python
 demo: $(STAMP_RUN)
 	$(BIN)/colstack run scenarios/demo_tower.toml --out demo_out
 
-test: $(STAMP_TEST)
-	$(BIN)/python -m ruff check design optimizer
+# ruff (rules and format) over all Python code, and the type checker (strict on design/)
+lint: $(STAMP_TEST)
+	$(BIN)/python -m ruff check design optimizer tests bench
+	$(BIN)/python -m ruff format --check design optimizer tests bench
+	$(BIN)/python -m mypy
+
+# the whole suite, after the lint and the check that DEVELOPERS.md quotes the benchmark records
+test: lint
+	$(BIN)/python bench/quote.py --check DEVELOPERS.md
 	$(BIN)/python -m pytest -q
+
+# the fast loop: everything but the end-to-end tests marked slow
+test-fast: $(STAMP_TEST)
+	$(BIN)/python -m pytest -q -m "not slow"
 
 bench: $(STAMP_BENCH)
 	$(BIN)/python bench/bench_resistance.py

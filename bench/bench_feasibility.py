@@ -65,13 +65,27 @@ def main(note: str | None = None) -> None:
     sample = [(int(rng.integers(len(ct))), int(rng.integers(len(cat)))) for _ in range(N_SAMPLE)]
     t0 = time.perf_counter()
     for c, t in sample[:N_TIMED]:
-        check_column(cat.designs[t], ColumnActions(
-            NEd=ct.NEd[c], My_top=ct.My_top[c], My_bot=ct.My_bot[c], Mz_top=ct.Mz_top[c], Mz_bot=ct.Mz_bot[c],
-            l0y=ct.l0y[c], l0z=ct.l0z[c], l_clear=ct.l_clear[c], l0_fi=ct.l0_fi[c]),
-            check_settings_for(sc, ct.exposure[c], ct.fire[c]), sc.params)
+        check_column(
+            cat.designs[t],
+            ColumnActions(
+                NEd=ct.NEd[c],
+                My_top=ct.My_top[c],
+                My_bot=ct.My_bot[c],
+                Mz_top=ct.Mz_top[c],
+                Mz_bot=ct.Mz_bot[c],
+                l0y=ct.l0y[c],
+                l0z=ct.l0z[c],
+                l_clear=ct.l_clear[c],
+                l0_fi=ct.l0_fi[c],
+            ),
+            check_settings_for(sc, ct.exposure[c], ct.fire[c]),
+            sc.params,
+        )
     t_single = (time.perf_counter() - t0) / N_TIMED
-    print(f"  single-column check           {1e3 * t_single:8.2f} ms per pair; the matrix is "
-          f"{t_single * rate:,.0f}x faster per pair")
+    print(
+        f"  single-column check           {1e3 * t_single:8.2f} ms per pair; the matrix is "
+        f"{t_single * rate:,.0f}x faster per pair"
+    )
 
     data = SectionData.of(SectionBatch(cat.designs))
     agree = 0
@@ -90,37 +104,45 @@ def main(note: str | None = None) -> None:
         rf, re_ = fast.utilisation_matrix[0, cols].max(), exact.utilisation_matrix[0, cols].max()
         if np.isfinite(re_) and re_ > 0.05 and np.isfinite(rf) and exact.values["NEd"][0] <= exact.values["NRd"][0]:
             worst_res = max(worst_res, abs(rf - re_) / re_)
-    print(f"  accuracy on {N_SAMPLE:,} pairs       pass/fail agree {agree}/{N_SAMPLE} before the exact re-check band; "
-          f"max |du|/u = {100 * worst:.2f} % (governing), {100 * worst_res:.2f} % (bending checks alone)")
+    print(
+        f"  accuracy on {N_SAMPLE:,} pairs       pass/fail agree {agree}/{N_SAMPLE} before the exact re-check band; "
+        f"max |du|/u = {100 * worst:.2f} % (governing), {100 * worst_res:.2f} % (bending checks alone)"
+    )
 
-    write_result("feasibility", started, inputs={
-        "n_storeys": STOREYS,
-        "n_stacks": STACKS,
-        "n_cells": len(sc.cells),
-        "n_types": len(cat),
-        "cover_note": cat.cover_note,
-        "n_pairs_checked": fe.pairs_checked,
-        "n_sample": N_SAMPLE,
-        "n_timed_single_checks": N_TIMED,
-    }, figures={
-        "takedown_s": t_takedown,
-        "n_feasible_pairs": fe.cand_cell.size,
-        "n_exact_rechecks": fe.exact_rechecks,
-        "total_s": total,
-        "target_s": TARGET_S,
-        "ratio_to_target": total / TARGET_S,
-        "checks_per_s": rate,
-        "peak_MB": rss,
-        "target_peak_MB": TARGET_PEAK_MB,
-        "steel_lower_bound_t": lb / 1000,
-        "n_undesignable_cells": n_undesignable,
-        "single_check_ms_per_pair": 1e3 * t_single,
-        "single_over_matrix_x": t_single * rate,
-        "n_pass_fail_agree": agree,
-        "max_diff_governing_pct": 100 * worst,
-        "max_diff_bending_pct": 100 * worst_res,
-        "target_max_diff_bending_pct": TARGET_DIFF_PCT,
-    }, note=note)
+    write_result(
+        "feasibility",
+        started,
+        inputs={
+            "n_storeys": STOREYS,
+            "n_stacks": STACKS,
+            "n_cells": len(sc.cells),
+            "n_types": len(cat),
+            "cover_note": cat.cover_note,
+            "n_pairs_checked": fe.pairs_checked,
+            "n_sample": N_SAMPLE,
+            "n_timed_single_checks": N_TIMED,
+        },
+        figures={
+            "takedown_s": t_takedown,
+            "n_feasible_pairs": fe.cand_cell.size,
+            "n_exact_rechecks": fe.exact_rechecks,
+            "total_s": total,
+            "target_s": TARGET_S,
+            "ratio_to_target": total / TARGET_S,
+            "checks_per_s": rate,
+            "peak_MB": rss,
+            "target_peak_MB": TARGET_PEAK_MB,
+            "steel_lower_bound_t": lb / 1000,
+            "n_undesignable_cells": n_undesignable,
+            "single_check_ms_per_pair": 1e3 * t_single,
+            "single_over_matrix_x": t_single * rate,
+            "n_pass_fail_agree": agree,
+            "max_diff_governing_pct": 100 * worst,
+            "max_diff_bending_pct": 100 * worst_res,
+            "target_max_diff_bending_pct": TARGET_DIFF_PCT,
+        },
+        note=note,
+    )
 
 
 if __name__ == "__main__":

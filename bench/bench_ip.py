@@ -84,8 +84,10 @@ def _size(notes: tuple[str, ...]) -> tuple[str, str]:
         m = re.search(r"path formulation: (\d+) units .*?, (\d+) candidate rows; tables in ([\d.]+) s", n)
         if m:
             paths = next((re.search(r"(\d+) paths", x) for x in notes if x.startswith("column generation")), None)
-            return (f"{m.group(1)} units, {int(m.group(2)):,} rows, {paths.group(1) if paths else '?'} paths",
-                    m.group(3))
+            return (
+                f"{m.group(1)} units, {int(m.group(2)):,} rows, {paths.group(1) if paths else '?'} paths",
+                m.group(3),
+            )
         m = re.search(r"model: (\d+) binaries, \d+ continuous, (\d+) rows, \d+ nonzeros; formulated in ([\d.]+) s", n)
         if m:
             return f"{int(m.group(1)):,} binaries, {int(m.group(2)):,} rows", m.group(3)
@@ -100,7 +102,7 @@ def seconds(text: str) -> float | None:
         return None
 
 
-def run_case(name: str, make, runs: list[tuple[str, str]]) -> dict:  # noqa: ANN001
+def run_case(name: str, make, runs: list[tuple[str, str]]) -> dict:
     """Build one problem, solve it every listed way and return its figures (keys with units)."""
     t0 = time.perf_counter()
     p = make()
@@ -118,10 +120,12 @@ def run_case(name: str, make, runs: list[tuple[str, str]]) -> dict:  # noqa: ANN
         "target_s": limit,
         "target_gap_pct": TARGET_GAP_PCT,
     }
-    print(f"\n== {name}: {p.n_cells:,} cells, {len(p.types):,} types, {len(p.cand_cell):,} feasible (cell, type) "
-          f"pairs; min run {p.rules.min_run}, price per type {p.rules.price_per_type:g}, cap on types "
-          f"{p.rules.max_types if p.rules.max_types is not None else 'none'}; built in "
-          f"{time.perf_counter() - t0:.1f} s; target: within 1 % in under {limit:g} s")
+    print(
+        f"\n== {name}: {p.n_cells:,} cells, {len(p.types):,} types, {len(p.cand_cell):,} feasible (cell, type) "
+        f"pairs; min run {p.rules.min_run}, price per type {p.rules.price_per_type:g}, cap on types "
+        f"{p.rules.max_types if p.rules.max_types is not None else 'none'}; built in "
+        f"{time.perf_counter() - t0:.1f} s; target: within 1 % in under {limit:g} s"
+    )
     lb = cellwise_lower_bound(p)
     print(f"cell-wise lower bound (no continuity, unlimited types): {lb.value:,.0f} kg")
     out["cellwise_lower_bound_kg"] = lb.value
@@ -130,22 +134,36 @@ def run_case(name: str, make, runs: list[tuple[str, str]]) -> dict:  # noqa: ANN
     if base is not None:
         fb = figures(p, base.cand)
         t_base = time.perf_counter() - t0
-        print(f"rule-of-thumb baseline: steel {fb.steel_kg:,.0f} kg, {fb.n_types} types ({fb.n_sections} sections), "
-              f"objective {fb.objective:,.0f}, premium {(fb.steel_kg - lb.value) / lb.value:.1%} "
-              f"({t_base:.1f} s)")
-        out["baseline"] = {"steel_kg": fb.steel_kg, "n_types": fb.n_types, "n_sections": fb.n_sections,
-                           "objective_kg": fb.objective, "premium_pct": 100 * (fb.steel_kg - lb.value) / lb.value,
-                           "time_s": t_base}
+        print(
+            f"rule-of-thumb baseline: steel {fb.steel_kg:,.0f} kg, {fb.n_types} types ({fb.n_sections} sections), "
+            f"objective {fb.objective:,.0f}, premium {(fb.steel_kg - lb.value) / lb.value:.1%} "
+            f"({t_base:.1f} s)"
+        )
+        out["baseline"] = {
+            "steel_kg": fb.steel_kg,
+            "n_types": fb.n_types,
+            "n_sections": fb.n_sections,
+            "objective_kg": fb.objective,
+            "premium_pct": 100 * (fb.steel_kg - lb.value) / lb.value,
+            "time_s": t_base,
+        }
     out["runs"] = {}
-    print(f"{'formulation':12} {'solver':6} {'model':>40} {'build s':>7} {'time s':>7} {'objective':>12} "
-          f"{'bound':>12} {'gap':>7} "
-          f"{'types':>5} {'steel t':>8} {'premium':>8}  status")
+    print(
+        f"{'formulation':12} {'solver':6} {'model':>40} {'build s':>7} {'time s':>7} {'objective':>12} "
+        f"{'bound':>12} {'gap':>7} "
+        f"{'types':>5} {'steel t':>8} {'premium':>8}  status"
+    )
     for form, solver in runs:
         t0 = time.perf_counter()
         s = optimise(p, solver, limit, TARGET_GAP_PCT / 100, None, formulation=form)
         secs = time.perf_counter() - t0
-        run: dict = {"formulation": form, "solver": solver, "time_s": secs, "ratio_to_target": secs / limit,
-                     "bound_kg": s.bound}
+        run: dict = {
+            "formulation": form,
+            "solver": solver,
+            "time_s": secs,
+            "ratio_to_target": secs / limit,
+            "bound_kg": s.bound,
+        }
         out["runs"][f"{form}_{solver}"] = run
         if s.cand is None or np.any(np.asarray(s.cand) < 0):
             size, build = _size(s.notes)
@@ -156,12 +174,22 @@ def run_case(name: str, make, runs: list[tuple[str, str]]) -> dict:  # noqa: ANN
         _, premium = lower_bound_premium(p, s)
         bad = check_schedule(p, s)
         size, build = _size(s.notes)
-        print(f"{form:12} {solver:6} {size:>40} {build:>7} {secs:7.1f} {s.objective:12,.0f} {s.bound:12,.0f} "
-              f"{s.gap:7.2%} {f.n_types:5d} {f.steel_kg / 1000:8.1f} {premium:8.1%}  {s.status}"
-              + ("" if not bad else f"  CHECKER: {len(bad)} violations"))
-        run.update(model=size, model_build_s=seconds(build), objective_kg=s.objective, gap_pct=100 * s.gap,
-                   n_types=f.n_types, steel_t=f.steel_kg / 1000, premium_pct=100 * premium, status=s.status,
-                   n_checker_violations=len(bad))
+        print(
+            f"{form:12} {solver:6} {size:>40} {build:>7} {secs:7.1f} {s.objective:12,.0f} {s.bound:12,.0f} "
+            f"{s.gap:7.2%} {f.n_types:5d} {f.steel_kg / 1000:8.1f} {premium:8.1%}  {s.status}"
+            + ("" if not bad else f"  CHECKER: {len(bad)} violations")
+        )
+        run.update(
+            model=size,
+            model_build_s=seconds(build),
+            objective_kg=s.objective,
+            gap_pct=100 * s.gap,
+            n_types=f.n_types,
+            steel_t=f.steel_kg / 1000,
+            premium_pct=100 * premium,
+            status=s.status,
+            n_checker_violations=len(bad),
+        )
         if base is not None:
             fb = figures(p, base.cand)
             print(f"{'':20} vs baseline: steel {f.steel_kg / fb.steel_kg - 1:+.1%}, types {f.n_types} vs {fb.n_types}")
@@ -180,21 +208,30 @@ def main(quick: bool = False, note: str | None = None) -> None:
     print("colstack benchmark: integer program (path and compact formulations, HiGHS and CBC)")
     t_all = time.perf_counter()
     cases = {}
-    cases[KEYS["demo tower"]] = run_case("demo tower", demo_problem, [
-        ("paths", "highs"), ("paths", "cbc"), ("compact", "highs"), ("compact", "cbc")])
-    cases[KEYS["demo tower, cap 8 types"]] = run_case("demo tower, cap 8 types", demo_capped_problem, [
-        ("paths", "highs"), ("paths", "cbc"), ("compact", "highs")])
+    cases[KEYS["demo tower"]] = run_case(
+        "demo tower", demo_problem, [("paths", "highs"), ("paths", "cbc"), ("compact", "highs"), ("compact", "cbc")]
+    )
+    cases[KEYS["demo tower, cap 8 types"]] = run_case(
+        "demo tower, cap 8 types", demo_capped_problem, [("paths", "highs"), ("paths", "cbc"), ("compact", "highs")]
+    )
     if not quick:
-        cases[KEYS["tower 50 x 60"]] = run_case("tower 50 x 60", tower_problem, [
-            ("paths", "highs"), ("paths", "cbc"), ("compact", "highs")])
+        cases[KEYS["tower 50 x 60"]] = run_case(
+            "tower 50 x 60", tower_problem, [("paths", "highs"), ("paths", "cbc"), ("compact", "highs")]
+        )
     rss = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
     total = time.perf_counter() - t_all
     print(f"\nbenchmark time {total:.0f} s, peak memory {rss:.0f} MB")
-    write_result("ip", started, inputs={
-        "quick": quick,
-        "skipped": [KEYS["tower 50 x 60"]] if quick else [],
-        "gap_requested_pct": TARGET_GAP_PCT,
-    }, figures={"cases": cases, "total_s": total, "peak_MB": rss}, note=note)
+    write_result(
+        "ip",
+        started,
+        inputs={
+            "quick": quick,
+            "skipped": [KEYS["tower 50 x 60"]] if quick else [],
+            "gap_requested_pct": TARGET_GAP_PCT,
+        },
+        figures={"cases": cases, "total_s": total, "peak_MB": rss},
+        note=note,
+    )
 
 
 if __name__ == "__main__":

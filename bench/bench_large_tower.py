@@ -49,10 +49,18 @@ def main(note: str | None = None) -> None:
     sc = with_reserved(sc, "optimizer", {"time_limit_s": TIME_LIMIT_S})
     t_generate = time.perf_counter() - t0
     print(f"  cells {len(sc.cells):,}; generated in {t_generate:.1f} s")
-    inputs = {"n_storeys": STOREYS, "n_stacks": STACKS, "n_cells": len(sc.cells), "grade": GRADE,
-              "catalogue_sizes_mm": CATALOGUE["sizes_mm"], "catalogue_shapes": CATALOGUE["shapes"],
-              "catalogue_bar_dias_mm": CATALOGUE["bar_dias"], "n_min_run_storeys": RULES["min_run"],
-              "price_per_type_kg": RULES["price_per_type"], "time_limit_s": TIME_LIMIT_S}
+    inputs = {
+        "n_storeys": STOREYS,
+        "n_stacks": STACKS,
+        "n_cells": len(sc.cells),
+        "grade": GRADE,
+        "catalogue_sizes_mm": CATALOGUE["sizes_mm"],
+        "catalogue_shapes": CATALOGUE["shapes"],
+        "catalogue_bar_dias_mm": CATALOGUE["bar_dias"],
+        "n_min_run_storeys": RULES["min_run"],
+        "price_per_type_kg": RULES["price_per_type"],
+        "time_limit_s": TIME_LIMIT_S,
+    }
 
     def progress(stage: str, done: int, total: int) -> None:
         if total == 0:
@@ -61,13 +69,24 @@ def main(note: str | None = None) -> None:
     t0 = time.perf_counter()
     try:
         r = run_scenario(sc, progress=progress)
-    except Exception as exc:  # noqa: BLE001 - a benchmark reports whatever happened
+    except Exception as exc:
         stopped = time.perf_counter() - t0
         print(f"  stopped after {stopped:.0f} s: {type(exc).__name__}: {exc}")
         print(f"  peak memory {peak_mb():,.0f} MB")
-        write_result("large_tower", started, inputs, {
-            "generate_s": t_generate, "stopped_after_s": stopped, "error": f"{type(exc).__name__}: {exc}",
-            "peak_MB": peak_mb(), "target_s": TARGET_S, "target_peak_MB": TARGET_PEAK_MB}, note=note)
+        write_result(
+            "large_tower",
+            started,
+            inputs,
+            {
+                "generate_s": t_generate,
+                "stopped_after_s": stopped,
+                "error": f"{type(exc).__name__}: {exc}",
+                "peak_MB": peak_mb(),
+                "target_s": TARGET_S,
+                "target_peak_MB": TARGET_PEAK_MB,
+            },
+            note=note,
+        )
         sys.exit(0)
     total = time.perf_counter() - t0
     tot = r.totals
@@ -78,25 +97,33 @@ def main(note: str | None = None) -> None:
     peak = peak_mb()
     print(f"  peak memory           {peak:8,.0f} MB   target < {TARGET_PEAK_MB:,} MB")
     print(f"  catalogue {len(r.catalogue):,} types; feasible pairs {r.feasibility.cand_cell.size:,}")
-    print(f"  schedule: {len(r.types_used)} types, {tot['steel_t']:,.1f} t steel; solver {s.solver}: {s.status}, "
-          f"proven gap {100 * s.gap:.2f} %; premium over the cell-wise bound {100 * r.premium:.1f} %")
-    write_result("large_tower", started, inputs, {
-        "generate_s": t_generate,
-        "total_s": total,
-        "target_s": TARGET_S,
-        "ratio_to_target": total / TARGET_S,
-        "stages_s": dict(r.timings_s),
-        "peak_MB": peak,
-        "target_peak_MB": TARGET_PEAK_MB,
-        "n_types": len(r.catalogue),
-        "n_feasible_pairs": r.feasibility.cand_cell.size,
-        "n_types_used": len(r.types_used),
-        "steel_t": tot["steel_t"],
-        "solver": s.solver,
-        "status": s.status,
-        "gap_pct": 100 * s.gap,
-        "premium_pct": 100 * r.premium,
-    }, note=note)
+    print(
+        f"  schedule: {len(r.types_used)} types, {tot['steel_t']:,.1f} t steel; solver {s.solver}: {s.status}, "
+        f"proven gap {100 * s.gap:.2f} %; premium over the cell-wise bound {100 * r.premium:.1f} %"
+    )
+    write_result(
+        "large_tower",
+        started,
+        inputs,
+        {
+            "generate_s": t_generate,
+            "total_s": total,
+            "target_s": TARGET_S,
+            "ratio_to_target": total / TARGET_S,
+            "stages_s": dict(r.timings_s),
+            "peak_MB": peak,
+            "target_peak_MB": TARGET_PEAK_MB,
+            "n_types": len(r.catalogue),
+            "n_feasible_pairs": r.feasibility.cand_cell.size,
+            "n_types_used": len(r.types_used),
+            "steel_t": tot["steel_t"],
+            "solver": s.solver,
+            "status": s.status,
+            "gap_pct": 100 * s.gap,
+            "premium_pct": 100 * r.premium,
+        },
+        note=note,
+    )
 
 
 if __name__ == "__main__":

@@ -64,25 +64,41 @@ def reference_library_time(ds: DesignSection) -> float | None:
         return None
     c, s, sec = ds.concrete, ds.steel, ds.section
     conc = CpConcrete(
-        name="concrete", density=2.4e-6,
-        stress_strain_profile=ConcreteLinearNoTension(elastic_modulus=c.Ecm, ultimate_strain=c.eps_cu2,
-                                                      compressive_strength=c.fcd),
+        name="concrete",
+        density=2.4e-6,
+        stress_strain_profile=ConcreteLinearNoTension(
+            elastic_modulus=c.Ecm, ultimate_strain=c.eps_cu2, compressive_strength=c.fcd
+        ),
         ultimate_stress_strain_profile=EurocodeParabolicUltimate(
-            compressive_strength=c.fcd, compressive_strain=c.eps_c2, ultimate_strain=c.eps_cu2, n=c.n),
-        flexural_tensile_strength=0.0, colour="lightgrey",
+            compressive_strength=c.fcd, compressive_strain=c.eps_c2, ultimate_strain=c.eps_cu2, n=c.n
+        ),
+        flexural_tensile_strength=0.0,
+        colour="lightgrey",
     )
     steel = SteelBar(
-        name="steel", density=7.85e-6,
-        stress_strain_profile=SteelElasticPlastic(yield_strength=s.fyd, elastic_modulus=s.Es,
-                                                  fracture_strain=1.0),
+        name="steel",
+        density=7.85e-6,
+        stress_strain_profile=SteelElasticPlastic(yield_strength=s.fyd, elastic_modulus=s.Es, fracture_strain=1.0),
         colour="grey",
     )
     geom = concrete_rectangular_section(
-        d=sec.h, b=sec.b, dia_top=sec.bars.dia, area_top=np.pi * sec.bars.dia**2 / 4, n_top=sec.bars.nb,
-        c_top=sec.cover + sec.link, dia_bot=sec.bars.dia, area_bot=np.pi * sec.bars.dia**2 / 4,
-        n_bot=sec.bars.nb, c_bot=sec.cover + sec.link, dia_side=sec.bars.dia,
-        area_side=np.pi * sec.bars.dia**2 / 4, n_side=sec.bars.nh - 2, c_side=sec.cover + sec.link,
-        n_circle=8, conc_mat=conc, steel_mat=steel,
+        d=sec.h,
+        b=sec.b,
+        dia_top=sec.bars.dia,
+        area_top=np.pi * sec.bars.dia**2 / 4,
+        n_top=sec.bars.nb,
+        c_top=sec.cover + sec.link,
+        dia_bot=sec.bars.dia,
+        area_bot=np.pi * sec.bars.dia**2 / 4,
+        n_bot=sec.bars.nb,
+        c_bot=sec.cover + sec.link,
+        dia_side=sec.bars.dia,
+        area_side=np.pi * sec.bars.dia**2 / 4,
+        n_side=sec.bars.nh - 2,
+        c_side=sec.cover + sec.link,
+        n_circle=8,
+        conc_mat=conc,
+        steel_mat=steel,
     )
     section = ConcreteSection(geom)
     n_ed = 0.3 * ds.section.Ac * c.fcd
@@ -116,8 +132,10 @@ def main(note: str | None = None) -> None:
     print(f"  pairs (section, NEd)          {pairs:,}")
     print(f"  batch build + N(s) tables     {t_build:8.2f} s")
     print(f"  MRd solve                     {t_solve:8.2f} s")
-    print(f"  throughput (all included)     {rate:12,.0f} pairs/s   target {TARGET_PAIRS_PER_S:,}  "
-          f"ratio {rate / TARGET_PAIRS_PER_S:.2f}")
+    print(
+        f"  throughput (all included)     {rate:12,.0f} pairs/s   target {TARGET_PAIRS_PER_S:,}  "
+        f"ratio {rate / TARGET_PAIRS_PER_S:.2f}"
+    )
     print(f"  peak memory                   {peak:8.0f} MB    target < {TARGET_PEAK_MB} MB")
 
     # Scalar reference path on a sample, for the ratio and a spot check.
@@ -130,39 +148,49 @@ def main(note: str | None = None) -> None:
         if m > 0:
             worst = max(worst, abs(m - MRd[k]) / m)
     t_scalar = (time.perf_counter() - t0) / len(sample)
-    print(f"  scalar path (quadrature)      {1e3 * t_scalar:8.1f} ms per pair   "
-          f"vectorised is {t_scalar * rate:,.0f}x faster; max rel. diff {worst:.1e}")
+    print(
+        f"  scalar path (quadrature)      {1e3 * t_scalar:8.1f} ms per pair   "
+        f"vectorised is {t_scalar * rate:,.0f}x faster; max rel. diff {worst:.1e}"
+    )
 
     t_ref = reference_library_time(designs[0])
     if t_ref is None:
         print("  reference library             not installed (pip install concreteproperties)")
     else:
-        print(f"  concreteproperties            {1e3 * t_ref:8.1f} ms per ultimate-capacity call   "
-              f"ratio to one vectorised pair: {t_ref * rate:,.0f}x")
+        print(
+            f"  concreteproperties            {1e3 * t_ref:8.1f} ms per ultimate-capacity call   "
+            f"ratio to one vectorised pair: {t_ref * rate:,.0f}x"
+        )
 
-    write_result("resistance", started, inputs={
-        "n_sections": n_sections,
-        "n_NEd_per_section": per_section,
-        "n_pairs": pairs,
-        "NEd_from_ratio": NEd_from,  # NEd / NRd of the section
-        "NEd_to_ratio": NEd_to,
-        "n_scalar_sample": n_sample,
-        "reference_library": "concreteproperties",
-    }, figures={
-        "build_s": t_build,
-        "solve_s": t_solve,
-        "total_s": t_build + t_solve,
-        "pairs_per_s": rate,
-        "target_pairs_per_s": TARGET_PAIRS_PER_S,
-        "ratio_to_target": rate / TARGET_PAIRS_PER_S,
-        "peak_MB": peak,
-        "target_peak_MB": TARGET_PEAK_MB,
-        "scalar_ms_per_pair": 1e3 * t_scalar,
-        "scalar_over_vectorised_x": t_scalar * rate,
-        "scalar_max_rel_diff_ratio": worst,
-        "reference_ms_per_call": None if t_ref is None else 1e3 * t_ref,
-        "reference_over_vectorised_x": None if t_ref is None else t_ref * rate,
-    }, note=note)
+    write_result(
+        "resistance",
+        started,
+        inputs={
+            "n_sections": n_sections,
+            "n_NEd_per_section": per_section,
+            "n_pairs": pairs,
+            "NEd_from_ratio": NEd_from,  # NEd / NRd of the section
+            "NEd_to_ratio": NEd_to,
+            "n_scalar_sample": n_sample,
+            "reference_library": "concreteproperties",
+        },
+        figures={
+            "build_s": t_build,
+            "solve_s": t_solve,
+            "total_s": t_build + t_solve,
+            "pairs_per_s": rate,
+            "target_pairs_per_s": TARGET_PAIRS_PER_S,
+            "ratio_to_target": rate / TARGET_PAIRS_PER_S,
+            "peak_MB": peak,
+            "target_peak_MB": TARGET_PEAK_MB,
+            "scalar_ms_per_pair": 1e3 * t_scalar,
+            "scalar_over_vectorised_x": t_scalar * rate,
+            "scalar_max_rel_diff_ratio": worst,
+            "reference_ms_per_call": None if t_ref is None else 1e3 * t_ref,
+            "reference_over_vectorised_x": None if t_ref is None else t_ref * rate,
+        },
+        note=note,
+    )
 
 
 if __name__ == "__main__":

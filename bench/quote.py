@@ -66,51 +66,64 @@ def pct(x: float | None, decimals: int = 2) -> str:
 def rows_resistance(doc: Mapping) -> list[Row]:
     """Rows of ``bench_resistance.py``: throughput, memory, scalar path and reference library."""
     i, f = doc["inputs"], doc["figures"]
-    rows = [(
-        f"MRd, {i['n_pairs']:,} (section, NEd) pairs, NEd from {i['NEd_from_ratio']:.1f} to "
-        f"{i['NEd_to_ratio']:.1f} NRd, tables included",
-        f"{sig(f['pairs_per_s'])} pairs/s ({sig(f['total_s'])} s; {f['ratio_to_target']:.2f} of the target)",
-        f"{sig(f['target_pairs_per_s'])} pairs/s",
-    ), ("peak memory of that run", mem(f["peak_MB"]), f"< {mem_target(f['target_peak_MB'])}")]
-    scalar = (f"{sig(f['scalar_ms_per_pair'])} ms per pair ({sig(f['scalar_over_vectorised_x'])}x the vectorised "
-              f"pair; largest relative difference {f['scalar_max_rel_diff_ratio']:.0e})")
+    rows = [
+        (
+            f"MRd, {i['n_pairs']:,} (section, NEd) pairs, NEd from {i['NEd_from_ratio']:.1f} to "
+            f"{i['NEd_to_ratio']:.1f} NRd, tables included",
+            f"{sig(f['pairs_per_s'])} pairs/s ({sig(f['total_s'])} s; {f['ratio_to_target']:.2f} of the target)",
+            f"{sig(f['target_pairs_per_s'])} pairs/s",
+        ),
+        ("peak memory of that run", mem(f["peak_MB"]), f"< {mem_target(f['target_peak_MB'])}"),
+    ]
+    scalar = (
+        f"{sig(f['scalar_ms_per_pair'])} ms per pair ({sig(f['scalar_over_vectorised_x'])}x the vectorised "
+        f"pair; largest relative difference {f['scalar_max_rel_diff_ratio']:.0e})"
+    )
     if f.get("reference_ms_per_call") is None:
         rows.append(("scalar path (reference library not installed)", scalar, "-"))
     else:
-        rows.append((
-            f"scalar path / one {i['reference_library']} ultimate-capacity call",
-            f"{sig(f['scalar_ms_per_pair'])} ms / {sig(f['reference_ms_per_call'])} ms per pair "
-            f"({sig(f['scalar_over_vectorised_x'])}x / {sig(f['reference_over_vectorised_x'])}x the vectorised pair);"
-            f" scalar and vectorised paths within {f['scalar_max_rel_diff_ratio']:.0e}",
-            "-",
-        ))
+        rows.append(
+            (
+                f"scalar path / one {i['reference_library']} ultimate-capacity call",
+                f"{sig(f['scalar_ms_per_pair'])} ms / {sig(f['reference_ms_per_call'])} ms per pair "
+                f"({sig(f['scalar_over_vectorised_x'])}x / "
+                f"{sig(f['reference_over_vectorised_x'])}x the vectorised pair);"
+                f" scalar and vectorised paths within {f['scalar_max_rel_diff_ratio']:.0e}",
+                "-",
+            )
+        )
     return rows
 
 
 def rows_feasibility(doc: Mapping) -> list[Row]:
     """Rows of ``bench_feasibility.py``: the matrix, its accuracy, the single-column route, the bound."""
     i, f = doc["inputs"], doc["figures"]
-    return [(
-        f"feasibility matrix, {i['n_storeys']} x {i['n_stacks']} tower ({i['n_cells']:,} cells) x {i['n_types']:,} "
-        f"types = {i['n_pairs_checked'] / 1e6:.1f} M checks",
-        f"{sig(f['total_s'])} s, {sig(f['checks_per_s'])} checks/s, {mem(f['peak_MB'])} peak; "
-        f"{f['n_feasible_pairs']:,} feasible pairs, {f['n_exact_rechecks']:,} re-checked exactly",
-        f"< {f['target_s']:g} s, < {mem_target(f['target_peak_MB'])}",
-    ), (
-        f"screened matrix vs exact check on {i['n_sample']:,} pairs",
-        f"pass/fail {f['n_pass_fail_agree']}/{i['n_sample']} before the exact re-check band; max difference "
-        f"{pct(f['max_diff_bending_pct'])} on the bending checks ({pct(f['max_diff_governing_pct'])} on the "
-        "governing check)",
-        pct(f["target_max_diff_bending_pct"], 1),
-    ), (
-        "single-column check of one pair",
-        f"{sig(f['single_check_ms_per_pair'])} ms; the matrix is {sig(f['single_over_matrix_x'])}x faster per pair",
-        "-",
-    ), (
-        "cell-wise lower bound on steel; cells no type can carry",
-        f"{sig(f['steel_lower_bound_t'])} t; {f['n_undesignable_cells']:,}",
-        "-",
-    )]
+    return [
+        (
+            f"feasibility matrix, {i['n_storeys']} x {i['n_stacks']} tower ({i['n_cells']:,} cells) x {i['n_types']:,} "
+            f"types = {i['n_pairs_checked'] / 1e6:.1f} M checks",
+            f"{sig(f['total_s'])} s, {sig(f['checks_per_s'])} checks/s, {mem(f['peak_MB'])} peak; "
+            f"{f['n_feasible_pairs']:,} feasible pairs, {f['n_exact_rechecks']:,} re-checked exactly",
+            f"< {f['target_s']:g} s, < {mem_target(f['target_peak_MB'])}",
+        ),
+        (
+            f"screened matrix vs exact check on {i['n_sample']:,} pairs",
+            f"pass/fail {f['n_pass_fail_agree']}/{i['n_sample']} before the exact re-check band; max difference "
+            f"{pct(f['max_diff_bending_pct'])} on the bending checks ({pct(f['max_diff_governing_pct'])} on the "
+            "governing check)",
+            pct(f["target_max_diff_bending_pct"], 1),
+        ),
+        (
+            "single-column check of one pair",
+            f"{sig(f['single_check_ms_per_pair'])} ms; the matrix is {sig(f['single_over_matrix_x'])}x faster per pair",
+            "-",
+        ),
+        (
+            "cell-wise lower bound on steel; cells no type can carry",
+            f"{sig(f['steel_lower_bound_t'])} t; {f['n_undesignable_cells']:,}",
+            "-",
+        ),
+    ]
 
 
 def run_text(key: str, run: Mapping) -> str:
@@ -118,8 +131,10 @@ def run_text(key: str, run: Mapping) -> str:
     form, solver = run.get("formulation", key), SOLVERS.get(run.get("solver", ""), run.get("solver", ""))
     if run.get("gap_pct") is None:
         return f"{form}/{solver}: no schedule in {sig(run['time_s'])} s"
-    return (f"{form}/{solver}: {pct(run['gap_pct'])} in {sig(run['time_s'])} s ({run['status']}, "
-            f"{run['n_types']} types, {sig(run['steel_t'])} t)")
+    return (
+        f"{form}/{solver}: {pct(run['gap_pct'])} in {sig(run['time_s'])} s ({run['status']}, "
+        f"{run['n_types']} types, {sig(run['steel_t'])} t)"
+    )
 
 
 def rows_ip(doc: Mapping) -> list[Row]:
@@ -131,25 +146,33 @@ def rows_ip(doc: Mapping) -> list[Row]:
             coupling.append(f"price {case['price_per_type_kg']:g} kg per type")
         if case.get("n_max_types") is not None:
             coupling.append(f"cap of {case['n_max_types']} types")
-        rows.append((
-            f"integer program, {case['label']} ({case['n_cells']:,} cells, {case['n_types']:,} types, "
-            f"{case['n_feasible_pairs']:,} feasible pairs, {', '.join(coupling)}); proven gap and time",
-            "; ".join(run_text(k, r) for k, r in case["runs"].items()),
-            f"{case['target_gap_pct']:g} % in < {case['target_s']:g} s",
-        ))
+        rows.append(
+            (
+                f"integer program, {case['label']} ({case['n_cells']:,} cells, {case['n_types']:,} types, "
+                f"{case['n_feasible_pairs']:,} feasible pairs, {', '.join(coupling)}); proven gap and time",
+                "; ".join(run_text(k, r) for k, r in case["runs"].items()),
+                f"{case['target_gap_pct']:g} % in < {case['target_s']:g} s",
+            )
+        )
         b = case.get("baseline")
         if b is not None:
             bound_t = case["cellwise_lower_bound_kg"] / 1000
-            rows.append((
-                f"rule-of-thumb baseline, {case['label']}",
-                f"{sig(b['steel_kg'] / 1000)} t steel, {b['n_types']} types ({b['n_sections']} sections); "
-                f"{pct(b['premium_pct'], 1)} over the cell-wise bound of {sig(bound_t)} t",
-                "-",
-            ))
+            rows.append(
+                (
+                    f"rule-of-thumb baseline, {case['label']}",
+                    f"{sig(b['steel_kg'] / 1000)} t steel, {b['n_types']} types ({b['n_sections']} sections); "
+                    f"{pct(b['premium_pct'], 1)} over the cell-wise bound of {sig(bound_t)} t",
+                    "-",
+                )
+            )
     f = doc["figures"]
-    rows.append(("the whole benchmark" + (" (`--quick`: 3,000-cell tower skipped)" if doc["inputs"].get("quick")
-                                          else ""),
-                 f"{sig(f['total_s'])} s, {mem(f['peak_MB'])} peak", "-"))
+    rows.append(
+        (
+            "the whole benchmark" + (" (`--quick`: 3,000-cell tower skipped)" if doc["inputs"].get("quick") else ""),
+            f"{sig(f['total_s'])} s, {mem(f['peak_MB'])} peak",
+            "-",
+        )
+    )
     return rows
 
 
@@ -159,16 +182,24 @@ def rows_large_tower(doc: Mapping) -> list[Row]:
     what = f"whole job, {i['n_storeys']} x {i['n_stacks']} tower ({i['n_cells']:,} cells, {i['grade']}"
     target = f"< {f['target_s'] / 60:g} min, < {mem_target(f['target_peak_MB'])}"
     if "error" in f:
-        return [(what + "), `make bench-large`",
-                 f"stopped after {sig(f['stopped_after_s'])} s ({f['error']}), {mem(f['peak_MB'])} peak", target)]
+        return [
+            (
+                what + "), `make bench-large`",
+                f"stopped after {sig(f['stopped_after_s'])} s ({f['error']}), {mem(f['peak_MB'])} peak",
+                target,
+            )
+        ]
     stages = ", ".join(f"{k} {sig(v)} s" for k, v in f["stages_s"].items())
-    return [(
-        what + f", {f['n_types']:,} types, {f['n_feasible_pairs'] / 1e6:.1f} M feasible pairs), `make bench-large`",
-        f"{sig(f['total_s'])} s, {mem(f['peak_MB'])} peak: {stages}; {f['n_types_used']} types, {sig(f['steel_t'])} t "
-        f"steel, proven gap {pct(f['gap_pct'])} ({f['solver']}: {f['status']}), {pct(f['premium_pct'], 1)} over the "
-        "cell-wise bound",
-        target,
-    )]
+    return [
+        (
+            what + f", {f['n_types']:,} types, {f['n_feasible_pairs'] / 1e6:.1f} M feasible pairs), `make bench-large`",
+            f"{sig(f['total_s'])} s, {mem(f['peak_MB'])} peak: {stages}; {f['n_types_used']} types, "
+            f"{sig(f['steel_t'])} t steel, proven gap {pct(f['gap_pct'])} ({f['solver']}: {f['status']}), "
+            f"{pct(f['premium_pct'], 1)} over the "
+            "cell-wise bound",
+            target,
+        )
+    ]
 
 
 def flat(tree: object, path: str = "") -> list[tuple[str, object]]:
@@ -201,8 +232,10 @@ def caption(doc: Mapping) -> str:
     load = ""
     if m.get("load_1min_at_start") is not None and m.get("load_1min_at_end") is not None:
         load = f", load average {m['load_1min_at_start']:.1f} at the start and {m['load_1min_at_end']:.1f} at the end"
-    text = (f"`{doc['script']}`, measured {str(m['date'])[:10]} on {m['n_cpus']} CPUs, Python {m['python']}, "
-            f"numpy {m['numpy']}{load} (record: `bench/results/{doc['name']}.json`).")
+    text = (
+        f"`{doc['script']}`, measured {str(m['date'])[:10]} on {m['n_cpus']} CPUs, Python {m['python']}, "
+        f"numpy {m['numpy']}{load} (record: `bench/results/{doc['name']}.json`)."
+    )
     if doc.get("note"):
         text += f" Note: {doc['note'].rstrip('.')}."
     return text
@@ -260,30 +293,43 @@ def check(page: str, results: Mapping[str, Mapping], page_name: str = "the page"
         have, want = numbers(body), numbers(expected_body)
         for k, (h, w) in enumerate(zip(have, want, strict=False)):
             if h != w:
-                problems.append(f"bench:{name}: figure {k + 1} is {h} in {page_name} but {w} in the record "
-                                f"(... {context(body, k)} ...)")
+                problems.append(
+                    f"bench:{name}: figure {k + 1} is {h} in {page_name} but {w} in the record "
+                    f"(... {context(body, k)} ...)"
+                )
                 break
         else:
             if len(have) != len(want):
-                problems.append(f"bench:{name}: {len(have)} figures in {page_name}, {len(want)} in the record "
-                                "(paste the block from bench/quote.py whole)")
+                problems.append(
+                    f"bench:{name}: {len(have)} figures in {page_name}, {len(want)} in the record "
+                    "(paste the block from bench/quote.py whole)"
+                )
     return problems, len(blocks)
 
 
 def context(text: str, k: int, width: int = 40) -> str:
     """A few words around the ``k``-th number of ``text``."""
     m = list(re.finditer(NUMBER, text))[k]
-    return " ".join(text[max(m.start() - width, 0):m.end() + width].split())
+    return " ".join(text[max(m.start() - width, 0) : m.end() + width].split())
 
 
 def main(argv: list[str] | None = None) -> int:
     """Print the Markdown blocks, or check a page against the records; return the exit status."""
     ap = argparse.ArgumentParser(description=__doc__.strip().splitlines()[0])
-    ap.add_argument("--check", metavar="PAGE", type=Path,
-                    help="exit 1 if a figure quoted in PAGE between <!-- bench:NAME --> markers differs from "
-                         "bench/results/NAME.json")
-    ap.add_argument("--results", metavar="DIR", type=Path, default=RESULTS_DIR,
-                    help="folder of the JSON records (default: bench/results next to this script)")
+    ap.add_argument(
+        "--check",
+        metavar="PAGE",
+        type=Path,
+        help="exit 1 if a figure quoted in PAGE between <!-- bench:NAME --> markers differs from "
+        "bench/results/NAME.json",
+    )
+    ap.add_argument(
+        "--results",
+        metavar="DIR",
+        type=Path,
+        default=RESULTS_DIR,
+        help="folder of the JSON records (default: bench/results next to this script)",
+    )
     args = ap.parse_args(argv)
     results = load_results(args.results)
     if args.check is None:

@@ -68,8 +68,13 @@ def load_1min() -> float | None:
 def commit() -> str | None:
     """The git commit the benchmarks were run from (None outside a git checkout)."""
     try:
-        out = subprocess.run(["git", "-C", str(RESULTS_DIR.parent.parent), "rev-parse", "HEAD"],
-                             capture_output=True, text=True, timeout=10, check=False)
+        out = subprocess.run(
+            ["git", "-C", str(RESULTS_DIR.parent.parent), "rev-parse", "HEAD"],
+            capture_output=True,
+            text=True,
+            timeout=10,
+            check=False,
+        )
     except (OSError, subprocess.SubprocessError):
         return None
     return (out.stdout.strip() or None) if out.returncode == 0 else None
@@ -144,8 +149,9 @@ def plain(value: object) -> object:
     return value
 
 
-def result_document(name: str, script: str, machine_info: Mapping, inputs: Mapping, figures: Mapping,
-                    note: str | None = None) -> dict:
+def result_document(
+    name: str, script: str, machine_info: Mapping, inputs: Mapping, figures: Mapping, note: str | None = None
+) -> dict:
     """The JSON document of one benchmark run, checked for units.
 
     Args:
@@ -171,9 +177,11 @@ def result_document(name: str, script: str, machine_info: Mapping, inputs: Mappi
         doc["note"] = note
     bad = keys_without_unit(doc["inputs"], "inputs") + keys_without_unit(doc["figures"], "figures")
     if bad:
-        msg = (f"benchmark result {name!r}: no unit in the key of {', '.join(bad)}; expected a key ending in "
-               f"_<unit> or _<unit>_per_<thing> with a unit among {', '.join(UNITS)}, or starting with "
-               f"{' or '.join(UNIT_PREFIXES)}")
+        msg = (
+            f"benchmark result {name!r}: no unit in the key of {', '.join(bad)}; expected a key ending in "
+            f"_<unit> or _<unit>_per_<thing> with a unit among {', '.join(UNITS)}, or starting with "
+            f"{' or '.join(UNIT_PREFIXES)}"
+        )
         raise ValueError(msg)
     return doc
 
@@ -196,8 +204,15 @@ def write_atomic(path: Path, text: str) -> None:
         raise
 
 
-def write_result(name: str, machine_info: Mapping, inputs: Mapping, figures: Mapping, note: str | None = None,
-                 results_dir: Path = RESULTS_DIR, script: str | None = None) -> Path:
+def write_result(
+    name: str,
+    machine_info: Mapping,
+    inputs: Mapping,
+    figures: Mapping,
+    note: str | None = None,
+    results_dir: Path = RESULTS_DIR,
+    script: str | None = None,
+) -> Path:
     """Write ``<results_dir>/<name>.json`` atomically and return its path (arguments as :func:`result_document`).
 
     Args:
@@ -226,6 +241,8 @@ def argument_parser(doc: str | None) -> argparse.ArgumentParser:
         doc: the script's docstring; its first line describes the command.
     """
     ap = argparse.ArgumentParser(description=(doc or "").strip().splitlines()[0] if doc else None)
-    ap.add_argument("--note", help="free text kept with the figures in bench/results/<name>.json "
-                    "(e.g. 'machine shared with test runs')")
+    ap.add_argument(
+        "--note",
+        help="free text kept with the figures in bench/results/<name>.json (e.g. 'machine shared with test runs')",
+    )
     return ap

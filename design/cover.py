@@ -114,8 +114,10 @@ class Exposure:
             msg = f"exposure {text!r}: X0 (no risk of corrosion or attack) cannot be combined with other classes"
             raise ValueError(msg)
         if not any(c.in_table_4_4N for c in seen):
-            msg = (f"exposure {text!r}: XF and XA classes have no cover of their own (EN 1992-1-1 Table 4.4N); "
-                   f"give the accompanying carbonation or chloride class too, e.g. 'XC4+{seen[0].value}'")
+            msg = (
+                f"exposure {text!r}: XF and XA classes have no cover of their own (EN 1992-1-1 Table 4.4N); "
+                f"give the accompanying carbonation or chloride class too, e.g. 'XC4+{seen[0].value}'"
+            )
             raise ValueError(msg)
         object.__setattr__(self, "classes", tuple(seen))
 
@@ -148,8 +150,10 @@ def _exposure_class(value: object, whole: str) -> ExposureClass:
         return ExposureClass(part)
     except ValueError:
         known = ", ".join(c.value for c in ExposureClass)
-        msg = (f"exposure {whole!r}: {str(value).strip()!r} is not an exposure class of EN 1992-1-1 Table 4.1; "
-               f"expected one of {known}, joined by '+' (e.g. 'XC4+XF1')")
+        msg = (
+            f"exposure {whole!r}: {str(value).strip()!r} is not an exposure class of EN 1992-1-1 Table 4.1; "
+            f"expected one of {known}, joined by '+' (e.g. 'XC4+XF1')"
+        )
         raise ValueError(msg) from None
 
 
@@ -166,23 +170,30 @@ def parse_exposure(value: Exposure | ExposureClass | str) -> Exposure:
 _DUR_COLUMN = {
     ExposureClass.X0: 0,
     ExposureClass.XC1: 1,
-    ExposureClass.XC2: 2, ExposureClass.XC3: 2,
+    ExposureClass.XC2: 2,
+    ExposureClass.XC3: 2,
     ExposureClass.XC4: 3,
-    ExposureClass.XD1: 4, ExposureClass.XS1: 4,
-    ExposureClass.XD2: 5, ExposureClass.XS2: 5,
-    ExposureClass.XD3: 6, ExposureClass.XS3: 6,
+    ExposureClass.XD1: 4,
+    ExposureClass.XS1: 4,
+    ExposureClass.XD2: 5,
+    ExposureClass.XS2: 5,
+    ExposureClass.XD3: 6,
+    ExposureClass.XS3: 6,
 }
 
 #: EN 1992-1-1 Table 4.4N, cmin,dur (mm) for reinforcing steel; rows S1..S6,
 #: columns X0, XC1, XC2/XC3, XC4, XD1/XS1, XD2/XS2, XD3/XS3.
-CMIN_DUR_TABLE_4_4N = np.array([
-    [10, 10, 10, 15, 20, 25, 30],
-    [10, 10, 15, 20, 25, 30, 35],
-    [10, 10, 20, 25, 30, 35, 40],
-    [10, 15, 25, 30, 35, 40, 45],
-    [15, 20, 30, 35, 40, 45, 50],
-    [20, 25, 35, 40, 45, 50, 55],
-], dtype=float)
+CMIN_DUR_TABLE_4_4N = np.array(
+    [
+        [10, 10, 10, 15, 20, 25, 30],
+        [10, 10, 15, 20, 25, 30, 35],
+        [10, 10, 20, 25, 30, 35, 40],
+        [10, 15, 25, 30, 35, 40, 45],
+        [15, 20, 30, 35, 40, 45, 50],
+        [20, 25, 35, 40, 45, 50, 55],
+    ],
+    dtype=float,
+)
 
 # EN 1992-1-1 Table 4.3N, "strength class" row: fck of the class at or above
 # which the structural class may be reduced by 1. Columns X0, XC1, XC2/XC3,
@@ -190,11 +201,15 @@ CMIN_DUR_TABLE_4_4N = np.array([
 _STRENGTH_FCK = {
     ExposureClass.X0: 30.0,  # C30/37
     ExposureClass.XC1: 30.0,  # C30/37
-    ExposureClass.XC2: 35.0, ExposureClass.XC3: 35.0,  # C35/45
+    ExposureClass.XC2: 35.0,
+    ExposureClass.XC3: 35.0,  # C35/45
     ExposureClass.XC4: 40.0,  # C40/50
     ExposureClass.XD1: 40.0,  # C40/50
-    ExposureClass.XD2: 40.0, ExposureClass.XS1: 40.0,  # C40/50
-    ExposureClass.XD3: 45.0, ExposureClass.XS2: 45.0, ExposureClass.XS3: 45.0,  # C45/55
+    ExposureClass.XD2: 40.0,
+    ExposureClass.XS1: 40.0,  # C40/50
+    ExposureClass.XD3: 45.0,
+    ExposureClass.XS2: 45.0,
+    ExposureClass.XS3: 45.0,  # C45/55
 }
 
 AGGREGATE_LIMIT_MM = 32.0  # EN 1992-1-1, Table 4.2, note: +5 mm if dg > 32 mm
@@ -229,13 +244,17 @@ def _table_class(exposure: ExposureClass | str, table: str) -> ExposureClass:
     if isinstance(exposure, Exposure) and len(exposure.classes) == 1:
         exposure = exposure.classes[0]
     if isinstance(exposure, Exposure) or "+" in str(exposure):
-        msg = (f"exposure {str(exposure)!r} is a combination; use cmin_dur_for() / check_cover(), "
-               f"which take the largest cmin,dur over its classes")
+        msg = (
+            f"exposure {str(exposure)!r} is a combination; use cmin_dur_for() / check_cover(), "
+            f"which take the largest cmin,dur over its classes"
+        )
         raise ValueError(msg)
     exp = _exposure_class(exposure, str(exposure))
     if not exp.in_table_4_4N:
-        msg = (f"exposure class {exp.value} has no column in EN 1992-1-1 {table}; the cover follows the "
-               f"accompanying carbonation or chloride class: give a combination such as 'XC4+{exp.value}'")
+        msg = (
+            f"exposure class {exp.value} has no column in EN 1992-1-1 {table}; the cover follows the "
+            f"accompanying carbonation or chloride class: give a combination such as 'XC4+{exp.value}'"
+        )
         raise ValueError(msg)
     return exp
 
@@ -274,8 +293,7 @@ def structural_class(
         msg = f"structural_class_50y must be 1..6 (S1..S6), got {base} (-)"
         raise ValueError(msg)
     fck = _arr(fck)
-    s_general = (base + (2 if working_life_100y else 0) - (1 if slab_geometry else 0)
-                 - (1 if special_qc else 0))
+    s_general = base + (2 if working_life_100y else 0) - (1 if slab_geometry else 0) - (1 if special_qc else 0)
     s = s_general - np.where(fck >= _STRENGTH_FCK[exposure], 1, 0)
     return np.clip(s, 1, 6).astype(int)  # type: ignore[no-any-return]  # numpy stubs: np.clip of an NDArray[Any] is Any
 
@@ -355,13 +373,10 @@ def cmin_dur_for(
         msg = f"exposure {exp.name!r} has no class of EN 1992-1-1 Table 4.4N"
         raise ValueError(msg)
     dur, s, name = best
-    return CminDur(cmin_dur=np.asarray(dur, dtype=float), s_class=np.asarray(s, dtype=int),
-                   governing=np.asarray(name))
+    return CminDur(cmin_dur=np.asarray(dur, dtype=float), s_class=np.asarray(s, dtype=int), governing=np.asarray(name))
 
 
-def cmin(
-    cmin_b: ArrayLike, cmin_dur: ArrayLike, params: NationalParameters = EN_RECOMMENDED
-) -> NDArray[np.float64]:
+def cmin(cmin_b: ArrayLike, cmin_dur: ArrayLike, params: NationalParameters = EN_RECOMMENDED) -> NDArray[np.float64]:
     """Minimum cover cmin = max(cmin,b, cmin,dur + dc_gamma - dc_st - dc_add, 10 mm), mm.
 
     EN 1992-1-1, Eq. (4.2)
@@ -374,8 +389,7 @@ def cmin(
         cmin_b and cmin_dur broadcast.
 
     """
-    dur = (_arr(cmin_dur) + params.delta_c_dur_gamma - params.delta_c_dur_st
-           - params.delta_c_dur_add)
+    dur = _arr(cmin_dur) + params.delta_c_dur_gamma - params.delta_c_dur_st - params.delta_c_dur_add
     return np.maximum(np.maximum(_arr(cmin_b), dur), CMIN_ABSOLUTE_MM)
 
 
@@ -437,10 +451,22 @@ def check_cover(
     else:
         note = f"{exp.name} (cover from {found.governing}), S{s}, cmin,dur = {dur:g} mm"
     return [
-        CheckResult("nominal cover to links", "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)",
-                    demand=req_link, capacity=float(c_nom_link), unit="mm", note=note),
-        CheckResult("nominal cover to main bars", "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)",
-                    demand=req_main, capacity=float(c_nom_link + phi_link), unit="mm", note=note),
+        CheckResult(
+            "nominal cover to links",
+            "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)",
+            demand=req_link,
+            capacity=float(c_nom_link),
+            unit="mm",
+            note=note,
+        ),
+        CheckResult(
+            "nominal cover to main bars",
+            "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)",
+            demand=req_main,
+            capacity=float(c_nom_link + phi_link),
+            unit="mm",
+            note=note,
+        ),
     ]
 
 
@@ -454,16 +480,20 @@ def check_cover(
 INDICATIVE_FCK_TABLE_E1N: dict[ExposureClass, float] = {
     ExposureClass.X0: 12.0,  # C12/15
     ExposureClass.XC1: 20.0,  # C20/25
-    ExposureClass.XC2: 25.0, ExposureClass.XC3: 25.0,  # C25/30
+    ExposureClass.XC2: 25.0,
+    ExposureClass.XC3: 25.0,  # C25/30
     ExposureClass.XC4: 30.0,  # C30/37
-    ExposureClass.XD1: 30.0, ExposureClass.XD2: 30.0,  # C30/37
+    ExposureClass.XD1: 30.0,
+    ExposureClass.XD2: 30.0,  # C30/37
     ExposureClass.XD3: 35.0,  # C35/45
     ExposureClass.XS1: 30.0,  # C30/37
-    ExposureClass.XS2: 35.0, ExposureClass.XS3: 35.0,  # C35/45
+    ExposureClass.XS2: 35.0,
+    ExposureClass.XS3: 35.0,  # C35/45
     ExposureClass.XF1: 30.0,  # C30/37
     ExposureClass.XF2: 25.0,  # C25/30
     ExposureClass.XF3: 30.0,  # C30/37
-    ExposureClass.XA1: 30.0, ExposureClass.XA2: 30.0,  # C30/37
+    ExposureClass.XA1: 30.0,
+    ExposureClass.XA2: 30.0,  # C30/37
     ExposureClass.XA3: 35.0,  # C35/45
 }
 
@@ -515,5 +545,12 @@ def check_indicative_strength(exposure: Exposure | ExposureClass | str, fck: flo
     missing = [c.value for c in exp.classes if c not in INDICATIVE_FCK_TABLE_E1N]
     if missing:
         note += f"; {', '.join(missing)} not in Table E.1N (see EN 206; not checked)"
-    return CheckResult("indicative strength class (Annex E)", "EN 1992-1-1, Annex E (informative), Table E.1N",
-                       demand=need, capacity=float(fck), unit="MPa", note=note, kind=CheckKind.DURABILITY)
+    return CheckResult(
+        "indicative strength class (Annex E)",
+        "EN 1992-1-1, Annex E (informative), Table E.1N",
+        demand=need,
+        capacity=float(fck),
+        unit="MPa",
+        note=note,
+        kind=CheckKind.DURABILITY,
+    )

@@ -76,8 +76,7 @@ def _require(ok: np.ndarray | bool, msg: Callable[[], str]) -> None:
 
 
 def _check_RH(RH: np.ndarray) -> None:
-    _require((RH > 0.0) & (RH <= 100.0),
-             lambda: f"relative humidity RH must lie in (0, 100] %, got RH={RH} %")
+    _require((RH > 0.0) & (RH <= 100.0), lambda: f"relative humidity RH must lie in (0, 100] %, got RH={RH} %")
 
 
 def _check_h0(h0: np.ndarray) -> None:
@@ -149,8 +148,10 @@ class CreepSettings:
 
     def describe(self) -> str:
         """One sentence for a calculation sheet."""
-        return (f"RH {self.RH_percent:g} %, t0 {self.t0_days:g} days, cement class {self.cement.value} "
-                "(EN 1992-1-1 Annex B)")
+        return (
+            f"RH {self.RH_percent:g} %, t0 {self.t0_days:g} days, cement class {self.cement.value} "
+            "(EN 1992-1-1 Annex B)"
+        )
 
 
 # --------------------------------------------------------------------------
@@ -398,10 +399,14 @@ def phi_ef(phi_inf: ArrayLike, M0Eqp_over_M0Ed: ArrayLike) -> NDArray[np.float64
 
     """
     phi, ratio = _arr(phi_inf), _arr(M0Eqp_over_M0Ed)
-    _require((phi >= 0) & np.isfinite(phi),
-             lambda: f"creep coefficient phi(inf, t0) must not be negative, got phi_inf={phi} (-)")
-    _require((ratio >= 0.0) & (ratio <= RATIO_MAX),
-             lambda: f"moment ratio M0Eqp/M0Ed must lie in [0, {RATIO_MAX:g}], got {ratio} (-)")
+    _require(
+        (phi >= 0) & np.isfinite(phi),
+        lambda: f"creep coefficient phi(inf, t0) must not be negative, got phi_inf={phi} (-)",
+    )
+    _require(
+        (ratio >= 0.0) & (ratio <= RATIO_MAX),
+        lambda: f"moment ratio M0Eqp/M0Ed must lie in [0, {RATIO_MAX:g}], got {ratio} (-)",
+    )
     return phi * ratio
 
 

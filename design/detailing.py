@@ -82,13 +82,10 @@ def As_min(
     fyd, Ac = _arr(fyd), _arr(Ac)
     _positive("fyd", fyd, "MPa")
     _positive("Ac", Ac, "mm2")
-    return np.maximum(params.rho_min_axial * np.maximum(_arr(NEd), 0.0) / fyd,
-                      params.rho_min_area * Ac)
+    return np.maximum(params.rho_min_axial * np.maximum(_arr(NEd), 0.0) / fyd, params.rho_min_area * Ac)
 
 
-def As_max(
-    Ac: ArrayLike, at_lap: bool = False, params: NationalParameters = EN_RECOMMENDED
-) -> NDArray[np.float64]:
+def As_max(Ac: ArrayLike, at_lap: bool = False, params: NationalParameters = EN_RECOMMENDED) -> NDArray[np.float64]:
     """Maximum longitudinal reinforcement, 0.04 Ac (0.08 Ac at laps), mm2.
 
     EN 1992-1-1, 9.5.2(3)
@@ -151,10 +148,7 @@ def link_dia_min(phi_max: ArrayLike) -> NDArray[np.float64]:
 
 
 def scl_tmax(
-    phi_min: ArrayLike,
-    b_min: ArrayLike,
-    reduced: ArrayLike = False,
-    params: NationalParameters = EN_RECOMMENDED,
+    phi_min: ArrayLike, b_min: ArrayLike, reduced: ArrayLike = False, params: NationalParameters = EN_RECOMMENDED
 ) -> NDArray[np.float64]:
     """Maximum spacing of links min(20 phi_min, b_min, 400 mm), times 0.6 where reduced, mm.
 
@@ -191,16 +185,16 @@ def distance_to_restrained(positions: ArrayLike, restrained: ArrayLike) -> NDArr
     x = _arr(positions).ravel()
     r = np.asarray(restrained, dtype=bool).ravel()
     if x.shape != r.shape or not r.any():
-        msg = (f"positions and restrained need the same length and one restrained bar, "
-               f"got {x.size} positions, {r.size} flags, {int(r.sum())} restrained bars")
+        msg = (
+            f"positions and restrained need the same length and one restrained bar, "
+            f"got {x.size} positions, {r.size} flags, {int(r.sum())} restrained bars"
+        )
         raise ValueError(msg)
     return np.min(np.abs(x[:, None] - x[r][None, :]), axis=1)  # type: ignore[no-any-return]  # numpy stubs: np.min with axis= is Any
 
 
 def extra_ties_needed(
-    positions: ArrayLike,
-    restrained: ArrayLike | None = None,
-    max_distance: float = RESTRAINT_DISTANCE_MM,
+    positions: ArrayLike, restrained: ArrayLike | None = None, max_distance: float = RESTRAINT_DISTANCE_MM
 ) -> int:
     """Least number of extra restrained bars so no bar of a face is over 150 mm from one.
 
@@ -271,8 +265,7 @@ def link_count(
 
     """
     L, hm, s, phi, lap = (_arr(v) for v in (l_clear, h_max, s_max, phi_max_long, lap_length))
-    for name, v, u in (("l_clear", L, "mm"), ("h_max", hm, "mm"), ("s_max", s, "mm"),
-                       ("phi_max_long", phi, "mm")):
+    for name, v, u in (("l_clear", L, "mm"), ("h_max", hm, "mm"), ("s_max", s, "mm"), ("phi_max_long", phi, "mm")):
         _positive(name, v, u)
     if not np.all(lap >= 0):
         msg = f"lap_length must not be negative, got lap_length={lap} mm"
@@ -303,8 +296,9 @@ def check_phi_min(phi: float, params: NationalParameters = EN_RECOMMENDED) -> Ch
         params: national parameters (phi_min_long).
 
     """
-    return CheckResult("longitudinal bar diameter", "EN 1992-1-1, 9.5.2(1)",
-                       demand=params.phi_min_long, capacity=float(phi), unit="mm")
+    return CheckResult(
+        "longitudinal bar diameter", "EN 1992-1-1, 9.5.2(1)", demand=params.phi_min_long, capacity=float(phi), unit="mm"
+    )
 
 
 def check_As_min(
@@ -320,8 +314,13 @@ def check_As_min(
         params: national parameters.
 
     """
-    return CheckResult("minimum longitudinal reinforcement", "EN 1992-1-1, 9.5.2(2)",
-                       demand=float(As_min(NEd, fyd, Ac, params)), capacity=float(As), unit="mm2")
+    return CheckResult(
+        "minimum longitudinal reinforcement",
+        "EN 1992-1-1, 9.5.2(2)",
+        demand=float(As_min(NEd, fyd, Ac, params)),
+        capacity=float(As),
+        unit="mm2",
+    )
 
 
 def check_As_max(
@@ -336,9 +335,13 @@ def check_As_max(
         params: national parameters.
 
     """
-    return CheckResult("maximum longitudinal reinforcement" + (" at laps" if at_lap else ""),
-                       "EN 1992-1-1, 9.5.2(3)", demand=float(As),
-                       capacity=float(As_max(Ac, at_lap, params)), unit="mm2")
+    return CheckResult(
+        "maximum longitudinal reinforcement" + (" at laps" if at_lap else ""),
+        "EN 1992-1-1, 9.5.2(3)",
+        demand=float(As),
+        capacity=float(As_max(Ac, at_lap, params)),
+        unit="mm2",
+    )
 
 
 def check_bar_count(n_bars: int, shape: ColumnShape = ColumnShape.RECTANGULAR) -> CheckResult:
@@ -352,8 +355,13 @@ def check_bar_count(n_bars: int, shape: ColumnShape = ColumnShape.RECTANGULAR) -
     if n_bars < 0 or int(n_bars) != n_bars:
         msg = f"n_bars must be a non-negative integer, got n_bars={n_bars} bars"
         raise ValueError(msg)
-    return CheckResult("number of longitudinal bars", "EN 1992-1-1, 9.5.2(4)",
-                       demand=float(n_bars_min(shape)), capacity=float(n_bars), unit="bars")
+    return CheckResult(
+        "number of longitudinal bars",
+        "EN 1992-1-1, 9.5.2(4)",
+        demand=float(n_bars_min(shape)),
+        capacity=float(n_bars),
+        unit="bars",
+    )
 
 
 def check_clear_spacing(
@@ -368,9 +376,13 @@ def check_clear_spacing(
         params: national parameters (k1_spacing, k2_spacing_mm).
 
     """
-    return CheckResult("clear distance between bars", "EN 1992-1-1, 8.2(2)",
-                       demand=float(min_clear_spacing(phi, dg, params)), capacity=float(clear),
-                       unit="mm")
+    return CheckResult(
+        "clear distance between bars",
+        "EN 1992-1-1, 8.2(2)",
+        demand=float(min_clear_spacing(phi, dg, params)),
+        capacity=float(clear),
+        unit="mm",
+    )
 
 
 def check_link_diameter(phi_link: float, phi_max: float) -> CheckResult:
@@ -381,16 +393,17 @@ def check_link_diameter(phi_link: float, phi_max: float) -> CheckResult:
         phi_max: largest longitudinal bar diameter, mm.
 
     """
-    return CheckResult("link diameter", "EN 1992-1-1, 9.5.3(1)",
-                       demand=float(link_dia_min(phi_max)), capacity=float(phi_link), unit="mm")
+    return CheckResult(
+        "link diameter",
+        "EN 1992-1-1, 9.5.3(1)",
+        demand=float(link_dia_min(phi_max)),
+        capacity=float(phi_link),
+        unit="mm",
+    )
 
 
 def check_link_spacing(
-    s: float,
-    phi_min: float,
-    b_min: float,
-    reduced: bool = False,
-    params: NationalParameters = EN_RECOMMENDED,
+    s: float, phi_min: float, b_min: float, reduced: bool = False, params: NationalParameters = EN_RECOMMENDED
 ) -> CheckResult:
     """Link spacing s <= scl,tmax (9.5.3(3)), or 0.6 scl,tmax in the zones of 9.5.3(4).
 
@@ -403,14 +416,16 @@ def check_link_spacing(
 
     """
     clause = "EN 1992-1-1, 9.5.3(4)" if reduced else "EN 1992-1-1, 9.5.3(3)"
-    return CheckResult("link spacing" + (" (reduced zone)" if reduced else ""), clause,
-                       demand=float(s), capacity=float(scl_tmax(phi_min, b_min, reduced, params)),
-                       unit="mm")
+    return CheckResult(
+        "link spacing" + (" (reduced zone)" if reduced else ""),
+        clause,
+        demand=float(s),
+        capacity=float(scl_tmax(phi_min, b_min, reduced, params)),
+        unit="mm",
+    )
 
 
-def check_bar_restraint(
-    positions: ArrayLike, restrained: ArrayLike | None = None
-) -> CheckResult:
+def check_bar_restraint(positions: ArrayLike, restrained: ArrayLike | None = None) -> CheckResult:
     """No compression bar farther than 150 mm from a restrained bar, one face (9.5.3(6)).
 
     Demand is the largest distance from a bar to the nearest restrained bar;
@@ -430,7 +445,12 @@ def check_bar_restraint(
         r = np.asarray(restrained, dtype=bool).ravel()
     worst = float(np.max(distance_to_restrained(x, r)))
     extra = extra_ties_needed(x, r)
-    return CheckResult("restraint of compression bars", "EN 1992-1-1, 9.5.3(6)",
-                       demand=worst, capacity=RESTRAINT_DISTANCE_MM, unit="mm",
-                       note=f"{extra} extra tie(s) needed on this face" if extra else "",
-                       extra={"extra_ties": extra})
+    return CheckResult(
+        "restraint of compression bars",
+        "EN 1992-1-1, 9.5.3(6)",
+        demand=worst,
+        capacity=RESTRAINT_DISTANCE_MM,
+        unit="mm",
+        note=f"{extra} extra tie(s) needed on this face" if extra else "",
+        extra={"extra_ties": extra},
+    )

@@ -66,16 +66,22 @@ class FireRating(IntEnum):
 # means the table gives no value (R240, mu_fi = 0.7: width > 600 mm and a
 # particular assessment of buckling required).
 TABLE_5_2A: dict[FireRating, dict[float, list[tuple[float, float, bool]]]] = {
-    FireRating.R30: {0.2: [(200, 25, False)], 0.5: [(200, 25, False)],
-                     0.7: [(200, 32, False), (300, 27, False)]},
-    FireRating.R60: {0.2: [(200, 25, False)], 0.5: [(200, 36, False), (300, 31, False)],
-                     0.7: [(250, 46, False), (350, 40, False)]},
-    FireRating.R90: {0.2: [(200, 31, False), (300, 25, False)],
-                     0.5: [(300, 45, False), (400, 38, False)],
-                     0.7: [(350, 53, False), (450, 40, True)]},
-    FireRating.R120: {0.2: [(250, 40, False), (350, 35, False)],
-                      0.5: [(350, 45, True), (450, 40, True)],
-                      0.7: [(350, 57, True), (450, 51, True)]},
+    FireRating.R30: {0.2: [(200, 25, False)], 0.5: [(200, 25, False)], 0.7: [(200, 32, False), (300, 27, False)]},
+    FireRating.R60: {
+        0.2: [(200, 25, False)],
+        0.5: [(200, 36, False), (300, 31, False)],
+        0.7: [(250, 46, False), (350, 40, False)],
+    },
+    FireRating.R90: {
+        0.2: [(200, 31, False), (300, 25, False)],
+        0.5: [(300, 45, False), (400, 38, False)],
+        0.7: [(350, 53, False), (450, 40, True)],
+    },
+    FireRating.R120: {
+        0.2: [(250, 40, False), (350, 35, False)],
+        0.5: [(350, 45, True), (450, 40, True)],
+        0.7: [(350, 57, True), (450, 51, True)],
+    },
     FireRating.R180: {0.2: [(350, 45, True)], 0.5: [(350, 63, True)], 0.7: [(450, 70, True)]},
     FireRating.R240: {0.2: [(350, 61, True)], 0.5: [(450, 75, True)], 0.7: []},
 }
@@ -237,9 +243,7 @@ def R_n(n_bars: ArrayLike) -> NDArray[np.float64]:
     return np.where(_arr(n_bars) > 4, 12.0, 0.0)
 
 
-def R_fire(
-    R_eta_fi: ArrayLike, R_a: ArrayLike, R_l: ArrayLike, R_b: ArrayLike, R_n: ArrayLike
-) -> NDArray[np.float64]:
+def R_fire(R_eta_fi: ArrayLike, R_a: ArrayLike, R_l: ArrayLike, R_b: ArrayLike, R_n: ArrayLike) -> NDArray[np.float64]:
     """Fire resistance R = 120 ((R_eta_fi + R_a + R_l + R_b + R_n) / 120)^1.8, minutes.
 
     EN 1992-1-2, Eq. (5.7)
@@ -287,8 +291,10 @@ def method_a_conditions(
 
     """
     if min(b, h, Ac) <= 0 or l0_fi <= 0 or As < 0:
-        msg = (f"b, h, Ac, l0_fi must be positive and As >= 0, got b={b} mm, h={h} mm, "
-               f"Ac={Ac} mm2, l0_fi={l0_fi} mm, As={As} mm2")
+        msg = (
+            f"b, h, Ac, l0_fi must be positive and As >= 0, got b={b} mm, h={h} mm, "
+            f"Ac={Ac} mm2, l0_fi={l0_fi} mm, As={As} mm2"
+        )
         raise ValueError(msg)
     k = params.e_max_fire_factor
     reasons = []
@@ -304,8 +310,15 @@ def method_a_conditions(
 
 
 def _not_applicable(name: str, clause: str, reasons: list[str]) -> CheckResult:
-    return CheckResult(name, clause, demand=0.0, capacity=0.0, unit="",
-                       note="method A does not apply: " + "; ".join(reasons), applicable=False)
+    return CheckResult(
+        name,
+        clause,
+        demand=0.0,
+        capacity=0.0,
+        unit="",
+        note="method A does not apply: " + "; ".join(reasons),
+        applicable=False,
+    )
 
 
 def check_fire_table(
@@ -372,20 +385,42 @@ def check_fire_table(
         col = next(m for m in _MU_COLUMNS if mu_fi <= m + 1e-12)
         options = TABLE_5_2A[rating][col]
         if not options:
-            return _not_applicable(name, clause, [
-                f"Table 5.2a gives no value for {rating.name} at mu_fi = 0.7 "
-                "(width > 600 mm and an assessment of buckling needed)"])
+            return _not_applicable(
+                name,
+                clause,
+                [
+                    f"Table 5.2a gives no value for {rating.name} at mu_fi = 0.7 "
+                    "(width > 600 mm and an assessment of buckling needed)"
+                ],
+            )
     usable = [(bm, am) for bm, am, eight in options if n_bars >= 8 or not eight]
     if not usable:
-        return CheckResult(name, clause, demand=8.0, capacity=float(n_bars), unit="bars",
-                           note=f"the options for mu_fi = {col:g} need at least 8 bars")
+        return CheckResult(
+            name,
+            clause,
+            demand=8.0,
+            capacity=float(n_bars),
+            unit="bars",
+            note=f"the options for mu_fi = {col:g} need at least 8 bars",
+        )
     fitting = [am for bm, am in usable if width >= bm]
     if not fitting:
-        return CheckResult(name, clause, demand=float(min(bm for bm, _ in usable)),
-                           capacity=float(width), unit="mm",
-                           note=f"section width below bmin (mu_fi column {col:g})")
-    return CheckResult(name, clause, demand=float(min(fitting)), capacity=float(a), unit="mm",
-                       note=f"axis distance, mu_fi column {col:g}, width {width:g} mm")
+        return CheckResult(
+            name,
+            clause,
+            demand=float(min(bm for bm, _ in usable)),
+            capacity=float(width),
+            unit="mm",
+            note=f"section width below bmin (mu_fi column {col:g})",
+        )
+    return CheckResult(
+        name,
+        clause,
+        demand=float(min(fitting)),
+        capacity=float(a),
+        unit="mm",
+        note=f"axis distance, mu_fi column {col:g}, width {width:g} mm",
+    )
 
 
 def check_fire_eq_5_7(
@@ -444,7 +479,13 @@ def check_fire_eq_5_7(
         reasons.append(f"h = {max(b, h):g} mm > 1.5 b = {1.5 * min(b, h):g} mm")
     if reasons:
         return _not_applicable(name, clause, reasons)
-    R = float(R_fire(R_eta_fi(mu_fi, omega, params.alpha_cc), R_a(min(a, 80.0)),
-                     R_l(max(l0_fi, 2000.0)), R_b(min(bp, 450.0)), R_n(n_bars)))
-    return CheckResult(name, clause, demand=float(rating.value), capacity=R, unit="min",
-                       note=f"R = {R:.0f} min")
+    R = float(
+        R_fire(
+            R_eta_fi(mu_fi, omega, params.alpha_cc),
+            R_a(min(a, 80.0)),
+            R_l(max(l0_fi, 2000.0)),
+            R_b(min(bp, 450.0)),
+            R_n(n_bars),
+        )
+    )
+    return CheckResult(name, clause, demand=float(rating.value), capacity=R, unit="min", note=f"R = {R:.0f} min")

@@ -14,18 +14,7 @@ from numpy.typing import ArrayLike, NDArray
 from design.materials import fctk_005, fyd
 from design.params import EN_RECOMMENDED, NationalParameters
 
-__all__ = [
-    "BondCondition",
-    "eta1",
-    "eta2",
-    "fctd",
-    "fbd",
-    "lb_rqd",
-    "alpha6",
-    "l0_min",
-    "l0_lap",
-    "lap_length",
-]
+__all__ = ["BondCondition", "eta1", "eta2", "fctd", "fbd", "lb_rqd", "alpha6", "l0_min", "l0_lap", "lap_length"]
 
 FCK_BOND_CAP = 60.0  # EN 1992-1-1, 8.4.2(2): fctk,0.05 limited to the C60/75 value
 PHI_ETA2_MM = 32.0  # EN 1992-1-1, 8.4.2(2)

@@ -28,8 +28,21 @@ __all__ = [
     "Ductility",
     "TopBranch",
     "ConcreteLaw",
-    "fcm", "fctm", "fctk_005", "Ecm", "eps_c1", "eps_cu1", "eps_c2", "eps_cu2",
-    "n_exponent", "eps_c3", "eps_cu3", "lambda_block", "eta_block", "fcd", "fyd",
+    "fcm",
+    "fctm",
+    "fctk_005",
+    "Ecm",
+    "eps_c1",
+    "eps_cu1",
+    "eps_c2",
+    "eps_cu2",
+    "n_exponent",
+    "eps_c3",
+    "eps_cu3",
+    "lambda_block",
+    "eta_block",
+    "fcd",
+    "fyd",
     "parse_concrete_class",
     "STANDARD_CLASSES",
 ]
@@ -40,8 +53,20 @@ STEEL_DENSITY_KG_M3 = 7850.0
 
 # Strength classes of EN 1992-1-1 Table 3.1: fck -> fck,cube (MPa).
 STANDARD_CLASSES: dict[int, int] = {
-    12: 15, 16: 20, 20: 25, 25: 30, 30: 37, 35: 45, 40: 50, 45: 55, 50: 60,
-    55: 67, 60: 75, 70: 85, 80: 95, 90: 105,
+    12: 15,
+    16: 20,
+    20: 25,
+    25: 30,
+    30: 37,
+    35: 45,
+    40: 50,
+    45: 55,
+    50: 60,
+    55: 67,
+    60: 75,
+    70: 85,
+    80: 95,
+    90: 105,
 }
 
 
@@ -200,12 +225,19 @@ def parse_concrete_class(text: str) -> float:
     fck = float(m.group(1)) if m else None
     expected = STANDARD_CLASSES.get(int(fck)) if fck is not None and fck.is_integer() else None
     meant = f"C{fck:g}/{expected}" if expected is not None else None
-    ok = (m is not None and text.strip()[:1].upper() == "C" and m.group(2) is not None
-          and expected is not None and abs(float(m.group(2)) - expected) < 1e-9)
+    ok = (
+        m is not None
+        and text.strip()[:1].upper() == "C"
+        and m.group(2) is not None
+        and expected is not None
+        and abs(float(m.group(2)) - expected) < 1e-9
+    )
     if not ok or fck is None:  # fck is never None when ok
         hint = f"; did you mean {meant!r}?" if meant else ""
-        msg = (f"concrete class {text!r} is not a strength class of EN 1992-1-1 Table 3.1 written in full "
-               f"(e.g. 'C30/37'){hint}")
+        msg = (
+            f"concrete class {text!r} is not a strength class of EN 1992-1-1 Table 3.1 written in full "
+            f"(e.g. 'C30/37'){hint}"
+        )
         raise ValueError(msg)
     return fck
 
@@ -250,8 +282,9 @@ class Concrete:
 
     def __post_init__(self) -> None:
         if not (FCK_MIN <= self.fck <= FCK_MAX):
-            msg = (f"fck must lie between {FCK_MIN:g} and {FCK_MAX:g} MPa (EN 1992-1-1, 3.1.2(2)P), "
-                   f"got fck={self.fck} MPa")
+            msg = (
+                f"fck must lie between {FCK_MIN:g} and {FCK_MAX:g} MPa (EN 1992-1-1, 3.1.2(2)P), got fck={self.fck} MPa"
+            )
             raise ValueError(msg)
 
     @classmethod
@@ -358,8 +391,9 @@ class Reinforcement:
         params: NationalParameters = EN_RECOMMENDED,
     ) -> Reinforcement:
         """Steel with the partial factor and eps_ud/eps_uk of ``params``."""
-        return cls(fyk, Ductility(ductility), TopBranch(branch), gamma_s=params.gamma_s,
-                   eps_ud_factor=params.eps_ud_factor)
+        return cls(
+            fyk, Ductility(ductility), TopBranch(branch), gamma_s=params.gamma_s, eps_ud_factor=params.eps_ud_factor
+        )
 
     @property
     def fyd(self) -> float:

@@ -29,9 +29,10 @@ Units: N, mm, MPa, N mm. Compression positive. End moments follow the
 moment-diagram convention of :mod:`design.second_order.slenderness` (same sign
 at both ends = single curvature).
 
-The per-section arrays come from :mod:`design.section_data`; the checks after
-the design moments (creep ratio, shear, stresses, detailing, cover, fire) are
-the phases of :mod:`design.member_checks`.
+The per-section arrays come from :mod:`design.section_data`; the phases of the
+check (creep ratio, design moment about one axis, direction-exact biaxial
+utilisation, shear, stresses, detailing, cover, fire) are the functions of
+:mod:`design.member_checks`.
 """
 
 from __future__ import annotations
@@ -49,9 +50,11 @@ from design.cover import Exposure, ExposureClass, parse_exposure
 from design.creep import CreepSettings
 from design.fire import MU_FI_DEFAULT, FireRating
 from design.member_checks import (
+    axis_moments,
     cover_checks,
     detailing_checks,
     effective_creep,
+    exact_biaxial,
     fire_check,
     link_spacing,
     link_spacing_checks,
@@ -61,7 +64,7 @@ from design.member_checks import (
 from design.params import EN_RECOMMENDED, NationalParameters
 from design.resistance import DesignSection, SectionBatch
 from design.results import CheckColumn, CheckKind, CheckResult
-from design.second_order import biaxial, imperfections, nominal_curvature, slenderness
+from design.second_order import biaxial, imperfections
 from design.second_order.biaxial import SectionShape
 from design.second_order.imperfections import ImperfectionMethod
 from design.section_data import SectionData
@@ -81,6 +84,12 @@ __all__ = [
 # Beyond this slenderness the simplified methods of 5.8.8 are not relied on
 # here and the column is flagged (common practice; EN 1992-1-1 sets no limit).
 SLENDERNESS_CAP = 140.0
+
+# The per-section arrays of SectionData that the checks read, taken for every pair.
+_PAIR_ARRAYS = tuple(
+    "circ b h Ac As iy iz dy dz fck fcd fyk fyd Es cover link dia_max dia_min n_bars min_gap extra_ties"
+    " a_fire_min a_fire_mean Asl_y Asl_z dv_y dv_z fctm".split()
+)
 
 
 class MinEccentricity(StrEnum):
@@ -305,8 +314,12 @@ class MemberChecks:
             if j >= 0:
                 by_kind[kind] = results[j]
         return ColumnCheck(
-            checks=results, governing=gov, ok=bool(self.ok[i]), utilisation=float(self.utilisation[i]),
-            unverified=flagged, governing_by_kind=by_kind,
+            checks=results,
+            governing=gov,
+            ok=bool(self.ok[i]),
+            utilisation=float(self.utilisation[i]),
+            unverified=flagged,
+            governing_by_kind=by_kind,
             values={k: (v[i].item() if isinstance(v, np.ndarray) else v) for k, v in self.values.items()},
         )
 
@@ -346,59 +359,7 @@ def _b(x: ArrayLike | None, n: int) -> np.ndarray | None:
     return None if x is None else np.broadcast_to(np.asarray(x, dtype=float), (n,)).copy()
 
 
-def _axis_moments(
-    NEd: np.ndarray, M_top: np.ndarray, M_bot: np.ndarray, l0: np.ndarray, i: np.ndarray, h_e0: np.ndarray,
-    d: np.ndarray, fck: np.ndarray, fyd: np.ndarray, Es: np.ndarray, phi_ef: np.ndarray, n: np.ndarray,
-    omega: np.ndarray, ei_: np.ndarray, with_imp: bool, with_e0: bool, use_rm: np.ndarray, braced: np.ndarray,
-    c_fixed: float | None, params: NationalParameters,
-) -> dict[str, np.ndarray]:
-    """Design moment about one axis for one imperfection case (arrays; N, mm).
-
-    EN 1992-1-1, 5.8.8 with 5.8.3.1, 5.2(7) and 6.1(4).
-
-    rm = M01/M02 is taken from the first-order end moments including the
-    imperfection moment NEd ei, which acts at both ends in the direction of
-    M02; where the imperfection moment is at least the larger end moment of
-    the analysis, the first-order moment is predominantly due to the
-    imperfection and rm = 1 (5.8.3.1(1)). Unbraced members take C = 0.7 and
-    MEd = M02 + M2 (the second-order moment adds at the end).
-    """
-    lam = slenderness.slenderness(l0, i)
-    M01, M02 = nominal_curvature.first_order_end_moments(M_top, M_bot, NEd, ei_, with_imp)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        rm_total = np.where(M02 > 0, M01 / np.where(M02 > 0, M02, 1.0), 1.0)
-    m_imp = np.where(with_imp, np.maximum(NEd, 0.0) * ei_, 0.0)
-    m_first = np.maximum(np.abs(M_top), np.abs(M_bot))
-    predominantly_imp = with_imp & (m_imp >= m_first)
-    rm = np.where(predominantly_imp, 1.0, np.clip(rm_total, -1.0, 1.0))
-    rm = np.where(use_rm & braced, rm, 1.0)  # C = 0.7 where rm may not be used
-    lim = slenderness.lambda_lim(n, phi_ef=phi_ef, omega=omega, r_m=rm, params=params)
-    e0 = np.where(with_e0, imperfections.e0_min(h_e0), 0.0)
-    kr = nominal_curvature.Kr(np.maximum(n, 0.0), omega)
-    kphi = nominal_curvature.Kphi(phi_ef, fck, lam)
-    curv = nominal_curvature.inv_r(kr, kphi, nominal_curvature.inv_r0(nominal_curvature.eps_yd(fyd, Es), d))
-    c = nominal_curvature.c_curvature(rm_total) if c_fixed is None else np.full_like(NEd, c_fixed)
-    e2 = nominal_curvature.e2(curv, l0, c)
-    slender = (lam > lim.lambda_lim) & (NEd > 0)
-    m2 = np.where(slender, nominal_curvature.M2(NEd, e2), 0.0)
-    end_moment = np.maximum(M02 + m2, np.maximum(NEd, 0.0) * e0)  # unbraced: MEd = M02 + M2
-    MEd = np.where(
-        slender,
-        np.where(braced, nominal_curvature.design_moment_second_order(NEd, M01, M02, m2, e0), end_moment),
-        nominal_curvature.design_moment_first_order(NEd, M02, e0),
-    )
-    ones = np.ones_like(NEd)
-    return {
-        "lambda": lam, "lambda_lim": lim.lambda_lim, "A": lim.A * ones,
-        "B": lim.B * ones, "C": lim.C * ones, "rm": rm * ones, "rm_imperfection": predominantly_imp * ones,
-        "M01": M01, "M02": M02,
-        "M0e": np.abs(nominal_curvature.M0e(M01, M02)), "e0": imperfections.e0_min(h_e0),
-        "Kr": kr, "Kphi": kphi, "inv_r": curv, "c": c * ones, "e2": np.where(slender, e2, 0.0), "M2": m2,
-        "MEd": MEd, "slender": slender,
-    }
-
-
-def check_members(
+def check_members(  # noqa: PLR0915 - the member check's phases in clause order, one vectorised pass
     batch: SectionBatch | SectionData,
     idx: ArrayLike,
     actions: ColumnActions,
@@ -430,10 +391,7 @@ def check_members(
     idx = np.asarray(idx, dtype=int).ravel()
     n_pairs = len(idx)
     NEd = _b(actions.NEd, n_pairs)
-    g = {k: getattr(data, k)[idx] for k in (
-        "circ", "b", "h", "Ac", "As", "iy", "iz", "dy", "dz", "fck", "fcd", "fyk", "fyd", "Es",
-        "cover", "link", "dia_max", "dia_min", "n_bars", "min_gap", "extra_ties", "a_fire_min", "a_fire_mean",
-        "Asl_y", "Asl_z", "dv_y", "dv_z", "fctm")}
+    g = {k: getattr(data, k)[idx] for k in _PAIR_ARRAYS}
     l0y, l0z = _b(actions.l0y, n_pairs), _b(actions.l0z, n_pairs)
     if np.any(l0y <= 0) or np.any(l0z <= 0):
         msg = "effective lengths l0y, l0z must be positive (mm)"
@@ -448,8 +406,15 @@ def check_members(
     ei_z = imperfections.ei(l0z, settings.imperfection, l=l_clear, params=params)
     use_rm = np.full(n_pairs, bool(actions.moments_from_analysis))
     both = settings.min_eccentricity is MinEccentricity.BOTH_AXES
-    phi_ef, creep_values = effective_creep(g, data.transformed(idx), NEd, moments, _b(actions.phi_ef, n_pairs),
-                                           _b(actions.M0Eqp_ratio, n_pairs), settings.creep)
+    phi_ef, creep_values = effective_creep(
+        g,
+        data.transformed(idx),
+        NEd,
+        moments,
+        _b(actions.phi_ef, n_pairs),
+        _b(actions.M0Eqp_ratio, n_pairs),
+        settings.creep,
+    )
 
     # Resistances at NEd (independent of the imperfection case).
     NRd = sb.NRd()[idx]
@@ -465,18 +430,47 @@ def check_members(
         MRdz = sb.moment_resistance(NEd, "z", idx)
     NRd_a = g["Ac"] * g["fcd"] + g["As"] * g["fyd"]  # as defined for Eq. (5.39) in 5.8.9(4)
     shape = np.where(g["circ"], "circular", "rectangular")
-    a_exp = np.where(g["circ"], 2.0,
-                     biaxial.exponent_a(np.maximum(NEd, 0.0), NRd_a, SectionShape.RECTANGULAR))
+    a_exp = np.where(g["circ"], 2.0, biaxial.exponent_a(np.maximum(NEd, 0.0), NRd_a, SectionShape.RECTANGULAR))
 
-    common = dict(NEd=NEd, fck=g["fck"], fyd=g["fyd"], Es=g["Es"], phi_ef=phi_ef, n=n, omega=omega,
-                  braced=braced, use_rm=use_rm, c_fixed=settings.curvature_c, params=params)
+    common = dict(
+        NEd=NEd,
+        fck=g["fck"],
+        fyd=g["fyd"],
+        Es=g["Es"],
+        phi_ef=phi_ef,
+        n=n,
+        omega=omega,
+        braced=braced,
+        use_rm=use_rm,
+        c_fixed=settings.curvature_c,
+        params=params,
+    )
     cases: list[dict[str, Any]] = []
     for imp_on_y in (True, False):
-        ay = _axis_moments(M_top=moments["My_top"], M_bot=moments["My_bot"], l0=l0y, i=g["iy"], h_e0=g["h"],
-                           d=g["dy"], ei_=ei_y, with_imp=imp_on_y, with_e0=imp_on_y or both, **common)
-        az = _axis_moments(M_top=moments["Mz_top"], M_bot=moments["Mz_bot"], l0=l0z, i=g["iz"], h_e0=g["b"],
-                           d=g["dz"], ei_=ei_z, with_imp=not imp_on_y, with_e0=(not imp_on_y) or both,
-                           **common)
+        ay = axis_moments(
+            M_top=moments["My_top"],
+            M_bot=moments["My_bot"],
+            l0=l0y,
+            i=g["iy"],
+            h_e0=g["h"],
+            d=g["dy"],
+            ei_=ei_y,
+            with_imp=imp_on_y,
+            with_e0=imp_on_y or both,
+            **common,
+        )
+        az = axis_moments(
+            M_top=moments["Mz_top"],
+            M_bot=moments["Mz_bot"],
+            l0=l0z,
+            i=g["iz"],
+            h_e0=g["b"],
+            d=g["dz"],
+            ei_=ei_z,
+            with_imp=not imp_on_y,
+            with_e0=(not imp_on_y) or both,
+            **common,
+        )
         uy = _ratio(ay["MEd"], MRdy)
         uz = _ratio(az["MEd"], MRdz)
         crit_a = biaxial.slenderness_ratio_ok(ay["lambda"], az["lambda"])
@@ -486,10 +480,21 @@ def check_members(
             ry, rz = ey / (g["iz"] * np.sqrt(12.0)), ez / (g["iy"] * np.sqrt(12.0))
             crit_b = (np.minimum(ry, rz) <= 0.2 * np.maximum(ry, rz)) | (NEd <= 0)
         separate = crit_a & crit_b
-        inter = np.where(separate, 0.0, uz ** a_exp + uy ** a_exp)
+        inter = np.where(separate, 0.0, uz**a_exp + uy**a_exp)
         worst = np.maximum.reduce([uy, uz, inter])
-        cases.append({"y": ay, "z": az, "uy": uy, "uz": uz, "crit_a": crit_a, "crit_b": crit_b,
-                      "separate": separate, "inter": inter, "worst": worst})
+        cases.append(
+            {
+                "y": ay,
+                "z": az,
+                "uy": uy,
+                "uz": uz,
+                "crit_a": crit_a,
+                "crit_b": crit_b,
+                "separate": separate,
+                "inter": inter,
+                "worst": worst,
+            }
+        )
     pick_y = cases[0]["worst"] >= cases[1]["worst"]
 
     def sel(key: str, sub: str | None = None) -> np.ndarray:
@@ -501,15 +506,29 @@ def check_members(
     separate = sel("separate")
     inter = sel("inter")
     values: dict[str, np.ndarray] = {
-        "NEd": NEd, "NRd": NRd, "NRd_5_39": NRd_a, "MRdy": MRdy, "MRdz": MRdz, "MEdy": MEdy, "MEdz": MEdz,
-        "n": n, "omega": omega, "ei_y": ei_y * np.ones(n_pairs), "ei_z": ei_z * np.ones(n_pairs),
-        "imperfection_axis": np.where(pick_y, "y", "z"), "a": a_exp, "criterion_5_38a": sel("crit_a"),
-        "criterion_5_38b": sel("crit_b"), "separate_checks": separate, "interaction_5_39": inter,
-        "l0y": l0y, "l0z": l0z, "shape": shape,
+        "NEd": NEd,
+        "NRd": NRd,
+        "NRd_5_39": NRd_a,
+        "MRdy": MRdy,
+        "MRdz": MRdz,
+        "MEdy": MEdy,
+        "MEdz": MEdz,
+        "n": n,
+        "omega": omega,
+        "ei_y": ei_y * np.ones(n_pairs),
+        "ei_z": ei_z * np.ones(n_pairs),
+        "imperfection_axis": np.where(pick_y, "y", "z"),
+        "a": a_exp,
+        "criterion_5_38a": sel("crit_a"),
+        "criterion_5_38b": sel("crit_b"),
+        "separate_checks": separate,
+        "interaction_5_39": inter,
+        "l0y": l0y,
+        "l0z": l0z,
+        "shape": shape,
     }
     for ax in ("y", "z"):
-        for key in ("lambda", "lambda_lim", "A", "B", "C", "rm", "rm_imperfection", "M01", "M02", "M0e", "e0",
-                    "Kr", "Kphi", "inv_r", "c", "e2", "M2", "slender"):
+        for key in "lambda lambda_lim A B C rm rm_imperfection M01 M02 M0e e0 Kr Kphi inv_r c e2 M2 slender".split():
             values[f"{key}_{ax}"] = sel(key, ax)
     values["A_default"] = np.zeros(n_pairs, dtype=bool)  # A always comes from phi_ef now (5.8.4)
     values["C_default"] = ~(use_rm & braced)
@@ -517,38 +536,70 @@ def check_members(
     values.update(creep_values)
     # 5.8.4(4): creep may be ignored (phi_ef = 0) where phi(inf, t0) <= 2, lambda <= 75 and M0Ed/NEd >= h
     with np.errstate(divide="ignore", invalid="ignore"):
-        ecc_ok = ((values["M02_y"] / np.where(NEd > 0, NEd, np.inf) >= g["h"])
-                  & (values["M02_z"] / np.where(NEd > 0, NEd, np.inf) >= g["b"]))
-    values["creep_ignorable_5_8_4_4"] = ((creep_values["phi_inf"] <= 2.0)
-                                         & (np.maximum(values["lambda_y"], values["lambda_z"]) <= 75.0) & ecc_ok)
+        ecc_ok = (values["M02_y"] / np.where(NEd > 0, NEd, np.inf) >= g["h"]) & (
+            values["M02_z"] / np.where(NEd > 0, NEd, np.inf) >= g["b"]
+        )
+    values["creep_ignorable_5_8_4_4"] = (
+        (creep_values["phi_inf"] <= 2.0) & (np.maximum(values["lambda_y"], values["lambda_z"]) <= 75.0) & ecc_ok
+    )
 
     ones = np.ones(n_pairs, dtype=bool)
     checks = [
-        CheckColumn("axial resistance", "EN 1992-1-1, 6.1", "kN", NEd / 1e3, NRd / 1e3, ones,
-                    "NRd by strain compatibility, uniform strain eps_c2 (6.1(5))"),
-        CheckColumn("bending about y", "EN 1992-1-1, 5.8.9(3), 6.1", "kNm", MEdy / 1e6, MRdy / 1e6, ones,
-                    "MEdy <= MRdy at NEd"),
-        CheckColumn("bending about z", "EN 1992-1-1, 5.8.9(3), 6.1", "kNm", MEdz / 1e6, MRdz / 1e6, ones,
-                    "MEdz <= MRdz at NEd"),
-        CheckColumn("biaxial interaction", "EN 1992-1-1, 5.8.9(4), Eq. (5.39)", "-", inter, np.ones(n_pairs),
-                    ones, np.where(separate, "not required: criteria (5.38a) and (5.38b) met",
-                                   "(MEdz/MRdz)^a + (MEdy/MRdy)^a <= 1")),
+        CheckColumn(
+            "axial resistance",
+            "EN 1992-1-1, 6.1",
+            "kN",
+            NEd / 1e3,
+            NRd / 1e3,
+            ones,
+            "NRd by strain compatibility, uniform strain eps_c2 (6.1(5))",
+        ),
+        CheckColumn(
+            "bending about y", "EN 1992-1-1, 5.8.9(3), 6.1", "kNm", MEdy / 1e6, MRdy / 1e6, ones, "MEdy <= MRdy at NEd"
+        ),
+        CheckColumn(
+            "bending about z", "EN 1992-1-1, 5.8.9(3), 6.1", "kNm", MEdz / 1e6, MRdz / 1e6, ones, "MEdz <= MRdz at NEd"
+        ),
+        CheckColumn(
+            "biaxial interaction",
+            "EN 1992-1-1, 5.8.9(4), Eq. (5.39)",
+            "-",
+            inter,
+            np.ones(n_pairs),
+            ones,
+            np.where(separate, "not required: criteria (5.38a) and (5.38b) met", "(MEdz/MRdz)^a + (MEdy/MRdy)^a <= 1"),
+        ),
     ]
     if settings.exact_biaxial:
-        u_exact = _exact_biaxial(sb, idx, NEd, MEdy, MEdz)
+        u_exact = exact_biaxial(sb, idx, NEd, MEdy, MEdz)
         values["utilisation_exact"] = u_exact
         if settings.biaxial is BiaxialMethod.EXACT:
-            checks[3] = CheckColumn("biaxial, direction-exact", "EN 1992-1-1, 6.1 (resistance surface)", "-",
-                                    u_exact, np.ones(n_pairs), ones,
-                                    "resultant MEd against MRd in its direction at NEd")
+            checks[3] = CheckColumn(
+                "biaxial, direction-exact",
+                "EN 1992-1-1, 6.1 (resistance surface)",
+                "-",
+                u_exact,
+                np.ones(n_pairs),
+                ones,
+                "resultant MEd against MRd in its direction at NEd",
+            )
     lam_max = np.maximum(values["lambda_y"], values["lambda_z"])
-    checks.append(CheckColumn("slenderness within range of method", "EN 1992-1-1, 5.8.8 (limit: common practice)",
-                              "-", lam_max, np.full(n_pairs, settings.slenderness_cap), ones,
-                              f"lambda above {settings.slenderness_cap:g} is flagged"))
+    checks.append(
+        CheckColumn(
+            "slenderness within range of method",
+            "EN 1992-1-1, 5.8.8 (limit: common practice)",
+            "-",
+            lam_max,
+            np.full(n_pairs, settings.slenderness_cap),
+            ones,
+            f"lambda above {settings.slenderness_cap:g} is flagged",
+        )
+    )
     s_link, s_zone = link_spacing(g, _b(actions.s_link, n_pairs), _b(actions.s_link_zone, n_pairs), params)
     values["s_link"], values["s_link_zone"] = s_link, s_zone
-    checks += shear_checks(g, NEd, moments, l0y, l0z, l_clear, braced, s_link, _b(actions.V_Ed, n_pairs), values,
-                           params)
+    checks += shear_checks(
+        g, NEd, moments, l0y, l0z, l_clear, braced, s_link, _b(actions.V_Ed, n_pairs), values, params
+    )
     checks += detailing_checks(g, NEd, settings.lapped, settings.aggregate, params, _b(actions.As_below, n_pairs))
     if actions.s_link is not None or actions.s_link_zone is not None:
         # derived spacings meet 9.5.3(3), (4) by construction; given ones are checked
@@ -556,13 +607,13 @@ def check_members(
     if settings.exposure is not None:
         exposure = parse_exposure(settings.exposure)  # already parsed in CheckSettings: the same value, typed
         checks += cover_checks(g, exposure, settings.aggregate, settings.working_life_100y, params)
-        checks += stress_checks(g, data.transformed(idx), NEd, moments, exposure, _b(actions.char_ratio, n_pairs),
-                                values, params)
+        checks += stress_checks(
+            g, data.transformed(idx), NEd, moments, exposure, _b(actions.char_ratio, n_pairs), values, params
+        )
     if settings.fire is not None:
         l0_fi = _b(actions.l0_fi, n_pairs)
         values["l0_fi"] = np.maximum(l0y, l0z) if l0_fi is None else l0_fi
-        checks.append(fire_check(g, NEd, values, settings.fire, settings.mu_fi,
-                                 settings.fire_outside_method, params))
+        checks.append(fire_check(g, NEd, values, settings.fire, settings.mu_fi, settings.fire_outside_method, params))
 
     # Quantities that feed the schedule (not pass/fail).
     values["lap_length"] = laps.lap_length(g["dia_max"], g["fck"], g["fyk"], params=params)
@@ -574,32 +625,7 @@ def check_members(
 
 def _ratio(demand: np.ndarray, capacity: np.ndarray) -> np.ndarray:
     with np.errstate(divide="ignore", invalid="ignore"):
-        return np.where(capacity > 0, demand / np.where(capacity > 0, capacity, 1.0),
-                        np.where(demand > 0, np.inf, 0.0))
-
-
-def _exact_biaxial(sb: SectionBatch, idx: np.ndarray, NEd: np.ndarray, MEdy: np.ndarray,
-                   MEdz: np.ndarray) -> np.ndarray:
-    """Utilisation |MEd| / |MRd| with MRd on the resistance surface in the direction of MEd.
-
-    EN 1992-1-1, 6.1: the compression direction theta is found by bisection
-    so that the resisting moment (MRdy, MRdz) points along (MEdy, MEdz);
-    the sections are doubly symmetric, so the first quadrant suffices.
-    """
-    target = np.arctan2(np.abs(MEdz), np.abs(MEdy))  # angle of the demand from the y axis
-    lo = np.zeros(len(idx))
-    hi = np.full(len(idx), np.pi / 2)
-    for _ in range(40):
-        mid = 0.5 * (lo + hi)
-        # theta measured from +y: theta = pi/2 compresses +z (pure MRdy).
-        ok, my, mz = sb.resistance_at_angle(NEd, np.pi / 2 - mid, idx)
-        ang = np.arctan2(np.abs(mz), np.abs(my))
-        go_up = ang < target
-        lo = np.where(go_up, mid, lo)
-        hi = np.where(go_up, hi, mid)
-    mres = np.hypot(my, mz)
-    demand = np.hypot(MEdy, MEdz)
-    return np.where(ok & (mres > 0), demand / np.where(mres > 0, mres, 1.0), np.where(demand > 0, np.inf, 0.0))
+        return np.where(capacity > 0, demand / np.where(capacity > 0, capacity, 1.0), np.where(demand > 0, np.inf, 0.0))
 
 
 def check_column(

@@ -1,11 +1,13 @@
-"""The checks of a member besides its strength in axial force and bending, for many pairs at once.
+"""The phases of the member check of :func:`design.member.check_members`, for many pairs at once.
 
-The phases of :func:`design.member.check_members` that follow the design
-moments: the effective creep ratio (5.8.4, Annex B, 3.1.4(4)), shear (6.2),
+In the order the check runs them: the effective creep ratio
+(5.8.4, Annex B, 3.1.4(4)), the design moment about one axis for one
+imperfection case (5.8.8 with 5.8.3.1, 5.2(7), 6.1(4)), the direction-exact
+biaxial utilisation on the resistance surface (6.1), shear (6.2),
 the compressive stress limit (7.2(2)), link spacing (9.5.3), bar and link
 rules (9.5.2, 9.5.3, 8.2), nominal cover and indicative strength (4.4.1,
-Annex E) and fire (EN 1992-1-2, 5.3.2, method A). Each takes the per-pair
-arrays ``g`` (rows of :class:`design.section_data.SectionData`) and returns
+Annex E) and fire (EN 1992-1-2, 5.3.2, method A). The checks take the per-pair
+arrays ``g`` (rows of :class:`design.section_data.SectionData`) and return
 :class:`design.results.CheckColumn` values, one per named check.
 
 Units: N, mm, MPa, N mm. Compression positive.
@@ -23,11 +25,15 @@ from design.cover import Exposure
 from design.creep import CreepSettings
 from design.fire import FireRating
 from design.params import NationalParameters
+from design.resistance import SectionBatch
 from design.results import CheckColumn, CheckKind
+from design.second_order import imperfections, nominal_curvature, slenderness
 
 __all__ = [
     "frame_moments",
     "effective_creep",
+    "axis_moments",
+    "exact_biaxial",
     "stress_checks",
     "link_spacing",
     "link_spacing_checks",
@@ -42,13 +48,21 @@ Arrays = dict[str, np.ndarray]
 
 def frame_moments(moments: Arrays) -> tuple[np.ndarray, np.ndarray]:
     """The larger first-order end moment about y and about z (magnitudes), N mm."""
-    return (np.maximum(np.abs(moments["My_top"]), np.abs(moments["My_bot"])),
-            np.maximum(np.abs(moments["Mz_top"]), np.abs(moments["Mz_bot"])))
+    return (
+        np.maximum(np.abs(moments["My_top"]), np.abs(moments["My_bot"])),
+        np.maximum(np.abs(moments["Mz_top"]), np.abs(moments["Mz_bot"])),
+    )
 
 
-def effective_creep(g: Arrays, tr: serviceability.TransformedSection, NEd: np.ndarray, moments: Arrays,
-                    phi_ef_given: np.ndarray | None, M0Eqp_ratio: np.ndarray | None,
-                    conditions: CreepSettings) -> tuple[np.ndarray, dict[str, np.ndarray]]:
+def effective_creep(
+    g: Arrays,
+    tr: serviceability.TransformedSection,
+    NEd: np.ndarray,
+    moments: Arrays,
+    phi_ef_given: np.ndarray | None,
+    M0Eqp_ratio: np.ndarray | None,
+    conditions: CreepSettings,
+) -> tuple[np.ndarray, dict[str, np.ndarray]]:
     """Effective creep ratio per pair and the values that explain it.
 
     EN 1992-1-1, 5.8.4 (Eq. (5.19)), Annex B, and 3.1.4(4): where the
@@ -81,18 +95,139 @@ def effective_creep(g: Arrays, tr: serviceability.TransformedSection, NEd: np.nd
         source = "given"
     else:
         phi_ef = creep.phi_ef(phi_inf, ratio)
-        source = ("Annex B, M0Eqp/M0Ed from the quasi-permanent and design combinations" if ratio_given
-                  else "Annex B, M0Eqp/M0Ed not given: 1.0 taken (upper bound)")
+        source = (
+            "Annex B, M0Eqp/M0Ed from the quasi-permanent and design combinations"
+            if ratio_given
+            else "Annex B, M0Eqp/M0Ed not given: 1.0 taken (upper bound)"
+        )
     return phi_ef, {
-        "phi_ef": phi_ef, "phi_inf": phi_inf, "phi_inf_linear": phi_lin, "h0": h0, "M0Eqp_ratio": ratio,
-        "sigma_c_qp": stress.sigma_c_max, "k_sigma_qp": k_sigma, "creep_nonlinear": k_sigma > creep.K_SIGMA_LINEAR,
-        "phi_ef_source": np.full(n_pairs, source), "creep_conditions": np.full(n_pairs, conditions.describe()),
+        "phi_ef": phi_ef,
+        "phi_inf": phi_inf,
+        "phi_inf_linear": phi_lin,
+        "h0": h0,
+        "M0Eqp_ratio": ratio,
+        "sigma_c_qp": stress.sigma_c_max,
+        "k_sigma_qp": k_sigma,
+        "creep_nonlinear": k_sigma > creep.K_SIGMA_LINEAR,
+        "phi_ef_source": np.full(n_pairs, source),
+        "creep_conditions": np.full(n_pairs, conditions.describe()),
     }
 
 
-def stress_checks(g: Arrays, tr: serviceability.TransformedSection, NEd: np.ndarray, moments: Arrays,
-                  exposure: Exposure, char_ratio: np.ndarray | None, values: Arrays,
-                  params: NationalParameters) -> list[CheckColumn]:
+def axis_moments(
+    NEd: np.ndarray,
+    M_top: np.ndarray,
+    M_bot: np.ndarray,
+    l0: np.ndarray,
+    i: np.ndarray,
+    h_e0: np.ndarray,
+    d: np.ndarray,
+    fck: np.ndarray,
+    fyd: np.ndarray,
+    Es: np.ndarray,
+    phi_ef: np.ndarray,
+    n: np.ndarray,
+    omega: np.ndarray,
+    ei_: np.ndarray,
+    with_imp: bool,
+    with_e0: bool,
+    use_rm: np.ndarray,
+    braced: np.ndarray,
+    c_fixed: float | None,
+    params: NationalParameters,
+) -> dict[str, np.ndarray]:
+    """Design moment about one axis for one imperfection case (arrays; N, mm).
+
+    EN 1992-1-1, 5.8.8 with 5.8.3.1, 5.2(7) and 6.1(4).
+
+    rm = M01/M02 is taken from the first-order end moments including the
+    imperfection moment NEd ei, which acts at both ends in the direction of
+    M02; where the imperfection moment is at least the larger end moment of
+    the analysis, the first-order moment is predominantly due to the
+    imperfection and rm = 1 (5.8.3.1(1)). Unbraced members take C = 0.7 and
+    MEd = M02 + M2 (the second-order moment adds at the end).
+    """
+    lam = slenderness.slenderness(l0, i)
+    M01, M02 = nominal_curvature.first_order_end_moments(M_top, M_bot, NEd, ei_, with_imp)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        rm_total = np.where(M02 > 0, M01 / np.where(M02 > 0, M02, 1.0), 1.0)
+    m_imp = np.where(with_imp, np.maximum(NEd, 0.0) * ei_, 0.0)
+    m_first = np.maximum(np.abs(M_top), np.abs(M_bot))
+    predominantly_imp = with_imp & (m_imp >= m_first)
+    rm = np.where(predominantly_imp, 1.0, np.clip(rm_total, -1.0, 1.0))
+    rm = np.where(use_rm & braced, rm, 1.0)  # C = 0.7 where rm may not be used
+    lim = slenderness.lambda_lim(n, phi_ef=phi_ef, omega=omega, r_m=rm, params=params)
+    e0 = np.where(with_e0, imperfections.e0_min(h_e0), 0.0)
+    kr = nominal_curvature.Kr(np.maximum(n, 0.0), omega)
+    kphi = nominal_curvature.Kphi(phi_ef, fck, lam)
+    curv = nominal_curvature.inv_r(kr, kphi, nominal_curvature.inv_r0(nominal_curvature.eps_yd(fyd, Es), d))
+    c = nominal_curvature.c_curvature(rm_total) if c_fixed is None else np.full_like(NEd, c_fixed)
+    e2 = nominal_curvature.e2(curv, l0, c)
+    slender = (lam > lim.lambda_lim) & (NEd > 0)
+    m2 = np.where(slender, nominal_curvature.M2(NEd, e2), 0.0)
+    end_moment = np.maximum(M02 + m2, np.maximum(NEd, 0.0) * e0)  # unbraced: MEd = M02 + M2
+    MEd = np.where(
+        slender,
+        np.where(braced, nominal_curvature.design_moment_second_order(NEd, M01, M02, m2, e0), end_moment),
+        nominal_curvature.design_moment_first_order(NEd, M02, e0),
+    )
+    ones = np.ones_like(NEd)
+    return {
+        "lambda": lam,
+        "lambda_lim": lim.lambda_lim,
+        "A": lim.A * ones,
+        "B": lim.B * ones,
+        "C": lim.C * ones,
+        "rm": rm * ones,
+        "rm_imperfection": predominantly_imp * ones,
+        "M01": M01,
+        "M02": M02,
+        "M0e": np.abs(nominal_curvature.M0e(M01, M02)),
+        "e0": imperfections.e0_min(h_e0),
+        "Kr": kr,
+        "Kphi": kphi,
+        "inv_r": curv,
+        "c": c * ones,
+        "e2": np.where(slender, e2, 0.0),
+        "M2": m2,
+        "MEd": MEd,
+        "slender": slender,
+    }
+
+
+def exact_biaxial(sb: SectionBatch, idx: np.ndarray, NEd: np.ndarray, MEdy: np.ndarray, MEdz: np.ndarray) -> np.ndarray:
+    """Utilisation |MEd| / |MRd| with MRd on the resistance surface in the direction of MEd.
+
+    EN 1992-1-1, 6.1: the compression direction theta is found by bisection
+    so that the resisting moment (MRdy, MRdz) points along (MEdy, MEdz);
+    the sections are doubly symmetric, so the first quadrant suffices.
+    """
+    target = np.arctan2(np.abs(MEdz), np.abs(MEdy))  # angle of the demand from the y axis
+    lo = np.zeros(len(idx))
+    hi = np.full(len(idx), np.pi / 2)
+    for _ in range(40):
+        mid = 0.5 * (lo + hi)
+        # theta measured from +y: theta = pi/2 compresses +z (pure MRdy).
+        ok, my, mz = sb.resistance_at_angle(NEd, np.pi / 2 - mid, idx)
+        ang = np.arctan2(np.abs(mz), np.abs(my))
+        go_up = ang < target
+        lo = np.where(go_up, mid, lo)
+        hi = np.where(go_up, hi, mid)
+    mres = np.hypot(my, mz)
+    demand = np.hypot(MEdy, MEdz)
+    return np.where(ok & (mres > 0), demand / np.where(mres > 0, mres, 1.0), np.where(demand > 0, np.inf, 0.0))
+
+
+def stress_checks(
+    g: Arrays,
+    tr: serviceability.TransformedSection,
+    NEd: np.ndarray,
+    moments: Arrays,
+    exposure: Exposure,
+    char_ratio: np.ndarray | None,
+    values: Arrays,
+    params: NationalParameters,
+) -> list[CheckColumn]:
     """Compressive stress under the characteristic combination, at most k1 fck in XD, XF, XS exposures.
 
     EN 1992-1-1, 7.2(2)
@@ -126,17 +261,30 @@ def stress_checks(g: Arrays, tr: serviceability.TransformedSection, NEd: np.ndar
 
     def note(i: int) -> str:
         if s.cracked[i]:
-            return (f"section cracked under the {basis}: uncracked stress not valid, "
-                    "not verified (cracked-section stress not computed)")
+            return (
+                f"section cracked under the {basis}: uncracked stress not valid, "
+                "not verified (cracked-section stress not computed)"
+            )
         return f"uncracked transformed section under the {basis}, {exposure.name}"
 
-    return [CheckColumn("compressive stress, characteristic combination", "EN 1992-1-1, 7.2(2)", "MPa",
-                        np.maximum(s.sigma_c_max, 0.0), limit, ~s.cracked, note, blocking=False,
-                        kind=CheckKind.DURABILITY)]
+    return [
+        CheckColumn(
+            "compressive stress, characteristic combination",
+            "EN 1992-1-1, 7.2(2)",
+            "MPa",
+            np.maximum(s.sigma_c_max, 0.0),
+            limit,
+            ~s.cracked,
+            note,
+            blocking=False,
+            kind=CheckKind.DURABILITY,
+        )
+    ]
 
 
-def link_spacing(g: Arrays, s_link: np.ndarray | None, s_link_zone: np.ndarray | None,
-                 params: NationalParameters) -> tuple[np.ndarray, np.ndarray]:
+def link_spacing(
+    g: Arrays, s_link: np.ndarray | None, s_link_zone: np.ndarray | None, params: NationalParameters
+) -> tuple[np.ndarray, np.ndarray]:
     """Link spacing provided (general, and near beams/slabs and laps), mm.
 
     EN 1992-1-1, 9.5.3(3) and (4)
@@ -168,19 +316,42 @@ def link_spacing_checks(g: Arrays, s: np.ndarray, sz: np.ndarray, params: Nation
     b_min = np.minimum(g["b"], g["h"])
     ones = np.ones(len(s), dtype=bool)
     return [
-        CheckColumn("link spacing", "EN 1992-1-1, 9.5.3(3)", "mm", s,
-                    detailing.scl_tmax(g["dia_min"], b_min, False, params), ones,
-                    "s <= scl,tmax = min(20 phi_min, b_min, 400 mm)", kind=CheckKind.DETAILING),
-        CheckColumn("link spacing near beams, slabs and laps", "EN 1992-1-1, 9.5.3(4)", "mm", sz,
-                    detailing.scl_tmax(g["dia_min"], b_min, True, params), ones,
-                    "s <= 0.6 scl,tmax over the larger column dimension next to a beam or slab and at laps",
-                    kind=CheckKind.DETAILING),
+        CheckColumn(
+            "link spacing",
+            "EN 1992-1-1, 9.5.3(3)",
+            "mm",
+            s,
+            detailing.scl_tmax(g["dia_min"], b_min, False, params),
+            ones,
+            "s <= scl,tmax = min(20 phi_min, b_min, 400 mm)",
+            kind=CheckKind.DETAILING,
+        ),
+        CheckColumn(
+            "link spacing near beams, slabs and laps",
+            "EN 1992-1-1, 9.5.3(4)",
+            "mm",
+            sz,
+            detailing.scl_tmax(g["dia_min"], b_min, True, params),
+            ones,
+            "s <= 0.6 scl,tmax over the larger column dimension next to a beam or slab and at laps",
+            kind=CheckKind.DETAILING,
+        ),
     ]
 
 
-def shear_checks(g: Arrays, NEd: np.ndarray, moments: Arrays, l0y: np.ndarray, l0z: np.ndarray,
-                 l_clear: np.ndarray | None, braced: np.ndarray, s_link: np.ndarray, V_Ed: np.ndarray | None,
-                 values: Arrays, params: NationalParameters) -> list[CheckColumn]:
+def shear_checks(
+    g: Arrays,
+    NEd: np.ndarray,
+    moments: Arrays,
+    l0y: np.ndarray,
+    l0z: np.ndarray,
+    l_clear: np.ndarray | None,
+    braced: np.ndarray,
+    s_link: np.ndarray,
+    V_Ed: np.ndarray | None,
+    values: Arrays,
+    params: NationalParameters,
+) -> list[CheckColumn]:
     """Shear from the end moments in each direction against VRd,c, or the links and the strut.
 
     EN 1992-1-1, 6.2.2(1) Eq. (6.2), 6.2.3(3) Eqs. (6.8), (6.9)
@@ -208,31 +379,53 @@ def shear_checks(g: Arrays, NEd: np.ndarray, moments: Arrays, l0y: np.ndarray, l
     out = []
     fywd = g["fyd"]  # links of the same steel as the bars (common practice)
     Asw = 2.0 * np.pi * g["link"] ** 2 / 4.0
-    for along, moment, bw, dv, asl, l0 in (("z", "My", g["b"], g["dv_y"], g["Asl_y"], l0y),
-                                           ("y", "Mz", g["h"], g["dv_z"], g["Asl_z"], l0z)):
+    for along, moment, bw, dv, asl, l0 in (
+        ("z", "My", g["b"], g["dv_y"], g["Asl_y"], l0y),
+        ("y", "Mz", g["h"], g["dv_z"], g["Asl_z"], l0z),
+    ):
         length = l_clear if l_clear is not None else np.where(braced, l0, 0.5 * l0)
         VEd = shear.VEd_from_end_moments(moments[f"{moment}_top"], moments[f"{moment}_bot"], length, V_given)
-        res = shear.shear_check_arrays(VEd, bw, dv, asl, NEd, g["Ac"], g["fck"], g["fcd"], Asw, s_link, fywd,
-                                       params=params)
+        res = shear.shear_check_arrays(
+            VEd, bw, dv, asl, NEd, g["Ac"], g["fck"], g["fcd"], Asw, s_link, fywd, params=params
+        )
         for key in ("VEd", "VRd_c", "VRd_s", "VRd_max", "cot_theta"):
             values[f"{key}_{along}"] = getattr(res, key)
         values[f"shear_links_needed_{along}"] = res.needs_links
 
         def note(i: int, res: shear.ShearArrays = res, moment: str = moment) -> str:
             if not res.needs_links[i]:
-                return (f"VEd = (|{moment},top| + |{moment},bot|)/l <= VRd,c = {res.VRd_c[i] / 1e3:.0f} kN: "
-                        "no shear links needed beyond those of 9.5.3")
-            return (f"VEd > VRd,c = {res.VRd_c[i] / 1e3:.0f} kN: links 2 legs @ {s_link[i]:g} mm carry it, "
-                    f"VRd,s = {res.VRd_s[i] / 1e3:.0f} kN, strut VRd,max = {res.VRd_max[i] / 1e3:.0f} kN "
-                    f"(cot theta = {res.cot_theta[i]:.2f})")
+                return (
+                    f"VEd = (|{moment},top| + |{moment},bot|)/l <= VRd,c = {res.VRd_c[i] / 1e3:.0f} kN: "
+                    "no shear links needed beyond those of 9.5.3"
+                )
+            return (
+                f"VEd > VRd,c = {res.VRd_c[i] / 1e3:.0f} kN: links 2 legs @ {s_link[i]:g} mm carry it, "
+                f"VRd,s = {res.VRd_s[i] / 1e3:.0f} kN, strut VRd,max = {res.VRd_max[i] / 1e3:.0f} kN "
+                f"(cot theta = {res.cot_theta[i]:.2f})"
+            )
 
-        out.append(CheckColumn(f"shear along {along}", "EN 1992-1-1, 6.2.2 Eq. (6.2), 6.2.3 Eqs. (6.8), (6.9)",
-                               "kN", res.VEd / 1e3, res.capacity / 1e3, np.ones(n_pairs, dtype=bool), note))
+        out.append(
+            CheckColumn(
+                f"shear along {along}",
+                "EN 1992-1-1, 6.2.2 Eq. (6.2), 6.2.3 Eqs. (6.8), (6.9)",
+                "kN",
+                res.VEd / 1e3,
+                res.capacity / 1e3,
+                np.ones(n_pairs, dtype=bool),
+                note,
+            )
+        )
     return out
 
 
-def detailing_checks(g: Arrays, NEd: np.ndarray, lapped: bool, aggregate: float, params: NationalParameters,
-                     As_below: np.ndarray | None = None) -> list[CheckColumn]:
+def detailing_checks(
+    g: Arrays,
+    NEd: np.ndarray,
+    lapped: bool,
+    aggregate: float,
+    params: NationalParameters,
+    As_below: np.ndarray | None = None,
+) -> list[CheckColumn]:
     """Bar and link rules: diameters, As,min, As,max (also at laps), number and spacing of bars.
 
     EN 1992-1-1, 9.5.2, 9.5.3(1) and 8.2(2).
@@ -249,35 +442,89 @@ def detailing_checks(g: Arrays, NEd: np.ndarray, lapped: bool, aggregate: float,
     ones = np.ones(n_pairs, dtype=bool)
     as_min = detailing.As_min(np.maximum(NEd, 0.0), g["fyd"], g["Ac"], params)
     out = [
-        CheckColumn("minimum bar diameter", "EN 1992-1-1, 9.5.2(1)", "mm",
-                    np.full(n_pairs, params.phi_min_long), g["dia_min"], ones, "phi >= phi_min"),
-        CheckColumn("minimum longitudinal reinforcement", "EN 1992-1-1, 9.5.2(2)", "mm2", as_min, g["As"], ones,
-                    "As,min = max(0.10 NEd/fyd, 0.002 Ac)"),
-        CheckColumn("maximum longitudinal reinforcement", "EN 1992-1-1, 9.5.2(3)", "mm2", g["As"],
-                    detailing.As_max(g["Ac"], False, params), ones, "As <= 0.04 Ac outside laps"),
+        CheckColumn(
+            "minimum bar diameter",
+            "EN 1992-1-1, 9.5.2(1)",
+            "mm",
+            np.full(n_pairs, params.phi_min_long),
+            g["dia_min"],
+            ones,
+            "phi >= phi_min",
+        ),
+        CheckColumn(
+            "minimum longitudinal reinforcement",
+            "EN 1992-1-1, 9.5.2(2)",
+            "mm2",
+            as_min,
+            g["As"],
+            ones,
+            "As,min = max(0.10 NEd/fyd, 0.002 Ac)",
+        ),
+        CheckColumn(
+            "maximum longitudinal reinforcement",
+            "EN 1992-1-1, 9.5.2(3)",
+            "mm2",
+            g["As"],
+            detailing.As_max(g["Ac"], False, params),
+            ones,
+            "As <= 0.04 Ac outside laps",
+        ),
     ]
     if lapped:
         below = g["As"] if As_below is None else As_below
-        note = ("bars below and this storey's bars in the lap zone: As,below + As <= 0.08 Ac "
-                + ("(bars below taken equal to this storey's; a schedule checks the real pair)"
-                   if As_below is None else "(bars below as given)"))
-        out.append(CheckColumn("maximum reinforcement at laps", "EN 1992-1-1, 9.5.2(3)", "mm2", below + g["As"],
-                               detailing.As_max(g["Ac"], True, params), ones, note))
+        note = "bars below and this storey's bars in the lap zone: As,below + As <= 0.08 Ac " + (
+            "(bars below taken equal to this storey's; a schedule checks the real pair)"
+            if As_below is None
+            else "(bars below as given)"
+        )
+        out.append(
+            CheckColumn(
+                "maximum reinforcement at laps",
+                "EN 1992-1-1, 9.5.2(3)",
+                "mm2",
+                below + g["As"],
+                detailing.As_max(g["Ac"], True, params),
+                ones,
+                note,
+            )
+        )
     n_min = np.where(g["circ"], 6.0, 4.0)
     spacing = detailing.min_clear_spacing(g["dia_max"], aggregate, params)
     out += [
-        CheckColumn("number of bars", "EN 1992-1-1, 9.5.2(4)", "bars", n_min, g["n_bars"].astype(float), ones,
-                    "at least 4 bars (rectangular), 6 (circular)"),
-        CheckColumn("clear spacing of bars", "EN 1992-1-1, 8.2(2)", "mm", spacing, np.maximum(g["min_gap"], 0.0),
-                    ones, f"max(k1 phi, dg + k2, 20 mm), dg = {aggregate:g} mm"),
-        CheckColumn("link diameter", "EN 1992-1-1, 9.5.3(1)", "mm", detailing.link_dia_min(g["dia_max"]), g["link"],
-                    ones, "max(6 mm, phi_max/4)"),
+        CheckColumn(
+            "number of bars",
+            "EN 1992-1-1, 9.5.2(4)",
+            "bars",
+            n_min,
+            g["n_bars"].astype(float),
+            ones,
+            "at least 4 bars (rectangular), 6 (circular)",
+        ),
+        CheckColumn(
+            "clear spacing of bars",
+            "EN 1992-1-1, 8.2(2)",
+            "mm",
+            spacing,
+            np.maximum(g["min_gap"], 0.0),
+            ones,
+            f"max(k1 phi, dg + k2, 20 mm), dg = {aggregate:g} mm",
+        ),
+        CheckColumn(
+            "link diameter",
+            "EN 1992-1-1, 9.5.3(1)",
+            "mm",
+            detailing.link_dia_min(g["dia_max"]),
+            g["link"],
+            ones,
+            "max(6 mm, phi_max/4)",
+        ),
     ]
     return [dataclasses.replace(c, kind=CheckKind.DETAILING) for c in out]
 
 
-def cover_checks(g: Arrays, exposure: Exposure, aggregate: float, working_life_100y: bool,
-                 params: NationalParameters) -> list[CheckColumn]:
+def cover_checks(
+    g: Arrays, exposure: Exposure, aggregate: float, working_life_100y: bool, params: NationalParameters
+) -> list[CheckColumn]:
     """Nominal cover (4.4.1) and the indicative strength class (Annex E) of the exposure.
 
     EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2), Tables 4.3N, 4.4N and Annex E.
@@ -295,24 +542,55 @@ def cover_checks(g: Arrays, exposure: Exposure, aggregate: float, working_life_1
     ones = np.ones(len(g["b"]), dtype=bool)
 
     def note(i: int) -> str:
-        return (f"{exposure.name}: S{int(dur.s_class[i])} for {dur.governing[i]}, "
-                f"cmin,dur = {float(dur.cmin_dur[i]):g} mm")
+        return (
+            f"{exposure.name}: S{int(dur.s_class[i])} for {dur.governing[i]}, cmin,dur = {float(dur.cmin_dur[i]):g} mm"
+        )
 
     strength = cover.check_indicative_strength(exposure, float(np.max(g["fck"])))
     need = cover.indicative_fck(exposure)
     return [
-        CheckColumn("nominal cover to links", "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)", "mm", req_link,
-                    g["cover"], ones, note, kind=CheckKind.COVER),
-        CheckColumn("nominal cover to main bars", "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)", "mm", req_main,
-                    g["cover"] + g["link"], ones, note, kind=CheckKind.COVER),
-        CheckColumn(strength.name, strength.clause, "MPa", np.full(len(g["b"]), need), g["fck"], ones,
-                    strength.note,
-                    kind=CheckKind.DURABILITY),
+        CheckColumn(
+            "nominal cover to links",
+            "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)",
+            "mm",
+            req_link,
+            g["cover"],
+            ones,
+            note,
+            kind=CheckKind.COVER,
+        ),
+        CheckColumn(
+            "nominal cover to main bars",
+            "EN 1992-1-1, 4.4.1, Eqs. (4.1), (4.2)",
+            "mm",
+            req_main,
+            g["cover"] + g["link"],
+            ones,
+            note,
+            kind=CheckKind.COVER,
+        ),
+        CheckColumn(
+            strength.name,
+            strength.clause,
+            "MPa",
+            np.full(len(g["b"]), need),
+            g["fck"],
+            ones,
+            strength.note,
+            kind=CheckKind.DURABILITY,
+        ),
     ]
 
 
-def fire_check(g: Arrays, NEd: np.ndarray, values: Arrays, rating: FireRating, mu_fi: float,
-               outside_method: Literal["fail", "flag"], params: NationalParameters) -> CheckColumn:
+def fire_check(
+    g: Arrays,
+    NEd: np.ndarray,
+    values: Arrays,
+    rating: FireRating,
+    mu_fi: float,
+    outside_method: Literal["fail", "flag"],
+    params: NationalParameters,
+) -> CheckColumn:
     """Fire resistance by the tabulated data of method A, vectorised over pairs for one rating.
 
     EN 1992-1-2, 5.3.2, Table 5.2a, with the conditions of use of 5.3.2(2):
@@ -337,13 +615,30 @@ def fire_check(g: Arrays, NEd: np.ndarray, values: Arrays, rating: FireRating, m
     with np.errstate(divide="ignore", invalid="ignore"):
         Npos = np.where(NEd > 0, NEd, np.inf)
         # First-order eccentricities in fire, taken as the ULS first-order ones (imperfection excluded).
-        e_z = np.maximum(np.abs(values["M02_y"]) - values["ei_y"] * np.maximum(NEd, 0) *
-                         (values["imperfection_axis"] == "y"), 0.0) / Npos
-        e_y = np.maximum(np.abs(values["M02_z"]) - values["ei_z"] * np.maximum(NEd, 0) *
-                         (values["imperfection_axis"] == "z"), 0.0) / Npos
+        e_z = (
+            np.maximum(
+                np.abs(values["M02_y"]) - values["ei_y"] * np.maximum(NEd, 0) * (values["imperfection_axis"] == "y"),
+                0.0,
+            )
+            / Npos
+        )
+        e_y = (
+            np.maximum(
+                np.abs(values["M02_z"]) - values["ei_z"] * np.maximum(NEd, 0) * (values["imperfection_axis"] == "z"),
+                0.0,
+            )
+            / Npos
+        )
     kmax = params.e_max_fire_factor
-    bad = np.stack([l0_fi > fire.L0_FI_MAX_TABLE_MM, e_z > kmax * g["h"], e_y > kmax * g["b"],
-                    g["As"] >= fire.RHO_MAX_FIRE * g["Ac"]], axis=1)
+    bad = np.stack(
+        [
+            l0_fi > fire.L0_FI_MAX_TABLE_MM,
+            e_z > kmax * g["h"],
+            e_y > kmax * g["b"],
+            g["As"] >= fire.RHO_MAX_FIRE * g["Ac"],
+        ],
+        axis=1,
+    )
     cond = np.asarray(~bad.any(axis=1))
     col = next(m for m in (0.2, 0.5, 0.7) if mu_fi <= m + 1e-12) if mu_fi <= 0.7 else None
     options = fire.TABLE_5_2A[rating][col] if col is not None else []
@@ -358,14 +653,29 @@ def fire_check(g: Arrays, NEd: np.ndarray, values: Arrays, rating: FireRating, m
             return f"Table 5.2a gives no value for {rating.name} at mu_fi = {mu_fi:g}"
         if cond[i]:
             if np.isfinite(demand[i]):
-                return (f"axis distance of the nearest bar a = c + phi_link + phi/2 = {a[i]:g} mm "
-                        f"(area-weighted mean am = {g['a_fire_mean'][i]:.1f} mm, Eq. (5.5)); "
-                        f"mu_fi column {col}, width {width[i]:g} mm")
+                return (
+                    f"axis distance of the nearest bar a = c + phi_link + phi/2 = {a[i]:g} mm "
+                    f"(area-weighted mean am = {g['a_fire_mean'][i]:.1f} mm, Eq. (5.5)); "
+                    f"mu_fi column {col}, width {width[i]:g} mm"
+                )
             return "section narrower than every bmin of Table 5.2a (or fewer than 8 bars)"
-        why = [f"l0,fi = {l0_fi[i]:,.0f} mm > 3000 mm", f"e = {e_z[i]:.0f} mm > {kmax:g} h",
-               f"e = {e_y[i]:.0f} mm > {kmax:g} b", "As >= 0.04 Ac"]
+        why = [
+            f"l0,fi = {l0_fi[i]:,.0f} mm > 3000 mm",
+            f"e = {e_z[i]:.0f} mm > {kmax:g} h",
+            f"e = {e_y[i]:.0f} mm > {kmax:g} b",
+            "As >= 0.04 Ac",
+        ]
         return "method A does not apply: " + "; ".join(w for w, b in zip(why, bad[i], strict=True) if b)
 
     dem = np.where(np.isfinite(demand), demand, 1e6)
-    return CheckColumn(f"fire resistance {rating.name}", "EN 1992-1-2, 5.3.2, Table 5.2a", "mm", dem, a,
-                       applicable, reasons, blocking=outside_method == "fail", kind=CheckKind.FIRE)
+    return CheckColumn(
+        f"fire resistance {rating.name}",
+        "EN 1992-1-2, 5.3.2, Table 5.2a",
+        "mm",
+        dem,
+        a,
+        applicable,
+        reasons,
+        blocking=outside_method == "fail",
+        kind=CheckKind.FIRE,
+    )

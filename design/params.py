@@ -16,14 +16,7 @@ from dataclasses import dataclass
 from enum import Enum
 from typing import Any
 
-__all__ = [
-    "NationalParameters",
-    "ParameterSet",
-    "EN_RECOMMENDED",
-    "UK_ANNEX",
-    "parameter_set",
-    "with_overrides",
-]
+__all__ = ["NationalParameters", "ParameterSet", "EN_RECOMMENDED", "UK_ANNEX", "parameter_set", "with_overrides"]
 
 
 @dataclass(frozen=True)
@@ -137,11 +130,30 @@ class NationalParameters:
 
     def __post_init__(self) -> None:
         positive = (
-            "gamma_c", "gamma_s", "alpha_cc", "alpha_ct", "theta_0", "lambda_A",
-            "lambda_B", "lambda_C", "phi_min_long", "rho_min_area", "rho_max",
-            "rho_max_lap", "scl_factor_phi", "scl_max_mm", "scl_reduction",
-            "gamma_G", "gamma_Q", "xi", "k1_spacing", "eps_ud_factor",
-            "C_Rdc_factor", "v_min_factor", "k1_stress", "k2_stress",
+            "gamma_c",
+            "gamma_s",
+            "alpha_cc",
+            "alpha_ct",
+            "theta_0",
+            "lambda_A",
+            "lambda_B",
+            "lambda_C",
+            "phi_min_long",
+            "rho_min_area",
+            "rho_max",
+            "rho_max_lap",
+            "scl_factor_phi",
+            "scl_max_mm",
+            "scl_reduction",
+            "gamma_G",
+            "gamma_Q",
+            "xi",
+            "k1_spacing",
+            "eps_ud_factor",
+            "C_Rdc_factor",
+            "v_min_factor",
+            "k1_stress",
+            "k2_stress",
         )
         for field in positive:
             value = getattr(self, field)
@@ -155,15 +167,19 @@ class NationalParameters:
             msg = "delta_c_dev, k2_spacing_mm and rho_min_axial must not be negative"
             raise ValueError(msg)
         if self.k_min_restraint < 0 or self.k1_shear < 0:
-            msg = (f"k_min_restraint and k1_shear must not be negative, got k_min_restraint={self.k_min_restraint}, "
-                   f"k1_shear={self.k1_shear}")
+            msg = (
+                f"k_min_restraint and k1_shear must not be negative, got k_min_restraint={self.k_min_restraint}, "
+                f"k1_shear={self.k1_shear}"
+            )
             raise ValueError(msg)
         if not 1.0 <= self.cot_theta_max <= 3.0:
             msg = f"cot_theta_max must lie between 1 and 3 (EN 1992-1-1, 6.2.3(2)), got {self.cot_theta_max}"
             raise ValueError(msg)
         if self.xi > 1.0 or self.scl_reduction > 1.0:
-            msg = (f"xi and scl_reduction are reduction factors (<= 1), "
-                   f"got xi={self.xi}, scl_reduction={self.scl_reduction}")
+            msg = (
+                f"xi and scl_reduction are reduction factors (<= 1), "
+                f"got xi={self.xi}, scl_reduction={self.scl_reduction}"
+            )
             raise ValueError(msg)
 
 
@@ -185,10 +201,7 @@ EN_RECOMMENDED = NationalParameters()
 # - phi_min_long = 12 mm (NA to BS EN 1992-1-1, 9.5.2(1)).
 # Other values follow the recommended ones here.
 UK_ANNEX = NationalParameters(
-    name="UK National Annex (values recalled from memory; verify)",
-    alpha_cc=0.85,
-    xi=0.925,
-    phi_min_long=12.0,
+    name="UK National Annex (values recalled from memory; verify)", alpha_cc=0.85, xi=0.925, phi_min_long=12.0
 )
 
 _SETS = {ParameterSet.EN: EN_RECOMMENDED, ParameterSet.UK: UK_ANNEX}

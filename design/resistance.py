@@ -90,11 +90,7 @@ Axis = Literal["y", "z"]
 HORIZONTAL_BRANCH_STRAIN_LIMIT = 1.0
 
 # Breakpoints of the s-grid used to bracket N(s) = NEd.
-_S_GRID = np.concatenate([
-    np.linspace(0.0, 1.0, 17)[:-1],
-    np.linspace(1.0, 2.0, 129)[:-1],
-    np.linspace(2.0, 3.0, 49),
-])
+_S_GRID = np.concatenate([np.linspace(0.0, 1.0, 17)[:-1], np.linspace(1.0, 2.0, 129)[:-1], np.linspace(2.0, 3.0, 49)])
 
 _DEFAULT_WORKERS = max(1, min(2, os.cpu_count() or 1))
 _GAUSS_CACHE: dict[int, tuple[np.ndarray, np.ndarray]] = {}
@@ -169,10 +165,22 @@ class _Projected:
     def take(self, idx: np.ndarray) -> _Projected:
         """The rows ``idx`` (one per pair)."""
         return _Projected(
-            circ=self.circ[idx], H=self.H[idx], width=self.width[idx], R=self.R[idx],
-            b=self.b[idx], h=self.h[idx], cos=self.cos[idx], sin=self.sin[idx],
-            v=self.v[idx], t=self.t[idx], Au=self.Au[idx], A=self.A[idx], D=self.D[idx], dmax=self.dmax[idx],
-            mat={k: a[idx] for k, a in self.mat.items()}, angled=self.angled,
+            circ=self.circ[idx],
+            H=self.H[idx],
+            width=self.width[idx],
+            R=self.R[idx],
+            b=self.b[idx],
+            h=self.h[idx],
+            cos=self.cos[idx],
+            sin=self.sin[idx],
+            v=self.v[idx],
+            t=self.t[idx],
+            Au=self.Au[idx],
+            A=self.A[idx],
+            D=self.D[idx],
+            dmax=self.dmax[idx],
+            mat={k: a[idx] for k, a in self.mat.items()},
+            angled=self.angled,
             n2=self.n2 or bool(np.all(self.mat["n"][idx] == 2.0)),
         )
 
@@ -222,10 +230,9 @@ class SectionBatch:
             "fyd": np.array([x.fyd for x in st]),
             "Es": np.array([x.Es for x in st]),
             "slope": np.array([x.hardening_slope for x in st]),
-            "elim": np.array([
-                HORIZONTAL_BRANCH_STRAIN_LIMIT if x.branch is TopBranch.HORIZONTAL else x.eps_ud
-                for x in st
-            ]),
+            "elim": np.array(
+                [HORIZONTAL_BRANCH_STRAIN_LIMIT if x.branch is TopBranch.HORIZONTAL else x.eps_ud for x in st]
+            ),
         }
         if self.law is ConcreteLaw.PARABOLA_RECTANGLE:
             mat["ecu"] = np.array([x.eps_cu2 for x in c])
@@ -262,8 +269,21 @@ class SectionBatch:
         dmax = np.max(np.where(self.bar_A > 0, v, -np.inf), axis=1)
         v, t, A, Au, D = _layers(v, t, self.bar_A, self.bar_A * u, self.bar_D)
         return _Projected(
-            circ=self.circ, H=H, width=width, R=R, b=self.b, h=self.h, cos=cos, sin=sin,
-            v=v, t=t, Au=Au, A=A, D=D, dmax=dmax, mat=self.mat,
+            circ=self.circ,
+            H=H,
+            width=width,
+            R=R,
+            b=self.b,
+            h=self.h,
+            cos=cos,
+            sin=sin,
+            v=v,
+            t=t,
+            Au=Au,
+            A=A,
+            D=D,
+            dmax=dmax,
+            mat=self.mat,
             angled=not principal and bool(np.any(~self.circ)),
             n2=self._n_is_2,
         )
@@ -343,15 +363,18 @@ class SectionBatch:
             a = np.abs(eps)
             eyd = (mat["fyd"] / mat["Es"])[:, None]
             sig = np.copysign(
-                np.where(a <= eyd, mat["Es"][:, None] * a,
-                         mat["fyd"][:, None] + mat["slope"][:, None] * (a - eyd)), eps)
+                np.where(a <= eyd, mat["Es"][:, None] * a, mat["fyd"][:, None] + mat["slope"][:, None] * (a - eyd)), eps
+            )
         if self.law is ConcreteLaw.RECTANGULAR_BLOCK:
             # Displaced concrete: the share of each bar's diameter inside the block, so that
             # N grows smoothly as the block edge sweeps across a bar.
             kd = kappa[:, None] * Q.D
             with np.errstate(divide="ignore", invalid="ignore"):
-                frac = np.where(kd > 0, (eps + 0.5 * kd - mat["ethr"][:, None]) / np.where(kd > 0, kd, 1.0),
-                                (eps >= mat["ethr"][:, None]).astype(float))
+                frac = np.where(
+                    kd > 0,
+                    (eps + 0.5 * kd - mat["ethr"][:, None]) / np.where(kd > 0, kd, 1.0),
+                    (eps >= mat["ethr"][:, None]).astype(float),
+                )
             sig -= mat["fblock"][:, None] * np.clip(frac, 0.0, 1.0)
         else:
             sig -= self._concrete_stress(eps, mat, Q.n2)  # displaced concrete
@@ -472,8 +495,9 @@ class SectionBatch:
         return N, St, Su
 
     # ------------------------------------------------------------------ solving
-    def _solve(self, P_all: _Projected, N_tab: np.ndarray, idx: np.ndarray, NEd: np.ndarray,
-               moments: bool = True) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    def _solve(  # noqa: PLR0915 - one bracketed root search over all pairs; its branches are the pivots of Fig. 6.1
+        self, P_all: _Projected, N_tab: np.ndarray, idx: np.ndarray, NEd: np.ndarray, moments: bool = True
+    ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         """Find s with N(s) = NEd per pair; return (ok, S_t, S_u) at that s."""
         n = len(idx)
         K = N_tab.shape[1]
@@ -552,9 +576,15 @@ class SectionBatch:
         St[rows], Su[rows] = st, su
         return inside, St, Su
 
-    def moment_resistance(self, NEd: np.ndarray, axis: Axis, idx: np.ndarray | None = None,
-                          positive: bool = True, chunk: int = 8192,
-                          workers: int = _DEFAULT_WORKERS) -> np.ndarray:
+    def moment_resistance(
+        self,
+        NEd: np.ndarray,
+        axis: Axis,
+        idx: np.ndarray | None = None,
+        positive: bool = True,
+        chunk: int = 8192,
+        workers: int = _DEFAULT_WORKERS,
+    ) -> np.ndarray:
         """Moment resistance MRd (N mm) about ``axis`` at axial load NEd (N) per pair.
 
         EN 1992-1-1, 6.1 (strain compatibility with the limits of Fig. 6.1).
@@ -581,7 +611,7 @@ class SectionBatch:
         order = np.argsort(self.mat["n"][idx] != 2.0, kind="stable")
 
         def work(start: int) -> None:
-            sel = order[start:start + chunk]
+            sel = order[start : start + chunk]
             _, St, _ = self._solve(P, N_tab, idx[sel], NEd[sel])
             out[sel] = np.abs(St)
 
@@ -656,9 +686,13 @@ class SectionBatch:
         """
         P, _ = self._table(axis, positive)
         S = len(self)
-        s = np.concatenate([np.linspace(0, 1, n_points // 6 + 1)[:-1],
-                            np.linspace(1, 2, n_points // 2 + 1)[:-1],
-                            np.linspace(2, 3, n_points - n_points // 6 - n_points // 2)])
+        s = np.concatenate(
+            [
+                np.linspace(0, 1, n_points // 6 + 1)[:-1],
+                np.linspace(1, 2, n_points // 2 + 1)[:-1],
+                np.linspace(2, 3, n_points - n_points // 6 - n_points // 2),
+            ]
+        )
         K = len(s)
         rows = np.repeat(np.arange(S), K)
         Q = P.take(rows)
@@ -666,8 +700,9 @@ class SectionBatch:
         N, St, _ = self._forces(Q, eps_top, kappa)
         return N.reshape(S, K), np.abs(St).reshape(S, K)
 
-    def resistance_at_angle(self, NEd: np.ndarray, theta: np.ndarray,
-                            idx: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    def resistance_at_angle(
+        self, NEd: np.ndarray, theta: np.ndarray, idx: np.ndarray | None = None
+    ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         """Resisting moments for a compression direction at angle ``theta`` (rad).
 
         The strain gradient points along (cos theta, sin theta) in the (y, z)
@@ -701,7 +736,7 @@ class SectionBatch:
 class _PairView(SectionBatch):
     """A batch whose rows are (section, direction) pairs, for angled solves."""
 
-    def __init__(self, parent: SectionBatch, idx: np.ndarray, theta: np.ndarray) -> None:  # noqa: D107
+    def __init__(self, parent: SectionBatch, idx: np.ndarray, theta: np.ndarray) -> None:
         self.designs = tuple(parent.designs[i] for i in idx)
         self.law = parent.law
         self._n_is_2 = parent._n_is_2
@@ -774,8 +809,11 @@ def _inverse_quadratic(
 ) -> np.ndarray:
     """Root estimate by inverse quadratic interpolation; linear when it falls outside (a, b)."""
     with np.errstate(divide="ignore", invalid="ignore"):
-        q = (a * fb * fc / ((fa - fb) * (fa - fc)) + b * fa * fc / ((fb - fa) * (fb - fc))
-             + c * fa * fb / ((fc - fa) * (fc - fb)))
+        q = (
+            a * fb * fc / ((fa - fb) * (fa - fc))
+            + b * fa * fc / ((fb - fa) * (fb - fc))
+            + c * fa * fb / ((fc - fa) * (fc - fb))
+        )
         lin = a - fa * (b - a) / (fb - fa)
     lin = np.where(np.isfinite(lin), lin, 0.5 * (a + b))
     return np.where(np.isfinite(q) & (q > a) & (q < b), q, lin)  # type: ignore[no-any-return]  # numpy stubs: np.where of NDArray[Any] values is Any
@@ -784,8 +822,7 @@ def _inverse_quadratic(
 def _depth_of(e: float | np.ndarray, eps_top: np.ndarray, kappa: np.ndarray, H: np.ndarray) -> np.ndarray:
     """Depth (mm) at which the strain equals ``e``, clipped to [0, H]."""
     with np.errstate(divide="ignore", invalid="ignore"):
-        v = np.where(kappa > 0, (eps_top - e) / np.where(kappa > 0, kappa, 1.0),
-                     np.where(eps_top >= e, H, 0.0))
+        v = np.where(kappa > 0, (eps_top - e) / np.where(kappa > 0, kappa, 1.0), np.where(eps_top >= e, H, 0.0))
     return np.clip(v, 0.0, H)
 
 
@@ -854,7 +891,7 @@ def resistance_at_angle(ds: DesignSection, NEd: float, theta: float) -> tuple[fl
 
 
 # ---------------------------------------------------------------------- scalar reference path
-def moment_resistance_scalar(ds: DesignSection, NEd: float, axis: Axis) -> float:
+def moment_resistance_scalar(ds: DesignSection, NEd: float, axis: Axis) -> float:  # noqa: PLR0915 - the scalar reference path, written out for reading beside the vectorised one
     """MRd (N mm) at NEd (N) by a plain scalar route, for testing the vectorised path.
 
     EN 1992-1-1, 6.1
@@ -913,10 +950,12 @@ def moment_resistance_scalar(ds: DesignSection, NEd: float, axis: Axis) -> float
         for lo, hi in zip(pts[:-1], pts[1:], strict=True):
             if hi - lo <= 0:
                 continue
-            N += integrate.quad(lambda v: sig_c(top - kap * v) * width_at(v), lo, hi,
-                                epsabs=1e-9, epsrel=1e-12, limit=200)[0]
-            M += integrate.quad(lambda v: sig_c(top - kap * v) * width_at(v) * (H / 2 - v), lo, hi,
-                                epsabs=1e-9, epsrel=1e-12, limit=200)[0]
+            N += integrate.quad(
+                lambda v: sig_c(top - kap * v) * width_at(v), lo, hi, epsabs=1e-9, epsrel=1e-12, limit=200
+            )[0]
+            M += integrate.quad(
+                lambda v: sig_c(top - kap * v) * width_at(v) * (H / 2 - v), lo, hi, epsabs=1e-9, epsrel=1e-12, limit=200
+            )[0]
         for a, d, c, dd in zip(areas, depths, lever, dia, strict=True):
             e = top - kap * d
             if block:  # share of the bar's diameter inside the block, as in the vectorised path
@@ -942,6 +981,5 @@ def _solve_scalar(resultants: Callable[[float], tuple[float, float]], NEd: float
     n_min, n_max = resultants(0.0)[0], resultants(3.0)[0]
     if not n_min <= NEd <= n_max:
         return 0.0
-    s_root = optimize.brentq(lambda s: resultants(s)[0] - NEd, 0.0, 3.0, xtol=1e-15, rtol=1e-15,
-                             maxiter=500)
+    s_root = optimize.brentq(lambda s: resultants(s)[0] - NEd, 0.0, 3.0, xtol=1e-15, rtol=1e-15, maxiter=500)
     return abs(resultants(s_root)[1])

@@ -98,8 +98,11 @@ class CheckColumn:
     def utilisation(self) -> np.ndarray:
         """Demand / capacity per pair; where the method does not apply: inf if blocking, else 0 (flagged)."""
         with np.errstate(divide="ignore", invalid="ignore"):
-            u = np.where(self.capacity > 0, self.demand / np.where(self.capacity > 0, self.capacity, 1.0),
-                         np.where(self.demand > 0, np.inf, 0.0))
+            u = np.where(
+                self.capacity > 0,
+                self.demand / np.where(self.capacity > 0, self.capacity, 1.0),
+                np.where(self.demand > 0, np.inf, 0.0),
+            )
         return np.where(self.applicable, u, np.inf if self.blocking else 0.0)
 
     def result(self, i: int) -> CheckResult:
@@ -110,5 +113,13 @@ class CheckColumn:
             note = self.note(i)
         else:
             note = str(self.note[i])
-        return CheckResult(self.name, self.clause, float(self.demand[i]), float(self.capacity[i]),
-                           self.unit, note, bool(self.applicable[i]), kind=self.kind)
+        return CheckResult(
+            self.name,
+            self.clause,
+            float(self.demand[i]),
+            float(self.capacity[i]),
+            self.unit,
+            note,
+            bool(self.applicable[i]),
+            kind=self.kind,
+        )

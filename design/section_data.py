@@ -75,22 +75,34 @@ class SectionData:
         tension = np.array([_tension_face(s) for s in secs], dtype=float).reshape(-1, 4)
         trs = [_transformed(d) for d in ds]
         return cls(
-            batch=batch, circ=circ, b=b, h=h,
-            Ac=np.array([s.Ac for s in secs]), As=np.array([s.As for s in secs]),
-            iy=iy, iz=iz,
+            batch=batch,
+            circ=circ,
+            b=b,
+            h=h,
+            Ac=np.array([s.Ac for s in secs]),
+            As=np.array([s.As for s in secs]),
+            iy=iy,
+            iz=iz,
             dy=np.array([s.effective_depth("y") for s in secs]),
             dz=np.array([s.effective_depth("z") for s in secs]),
-            fck=np.array([d.concrete.fck for d in ds]), fcd=np.array([d.concrete.fcd for d in ds]),
-            fyk=np.array([d.steel.fyk for d in ds]), fyd=np.array([d.steel.fyd for d in ds]),
+            fck=np.array([d.concrete.fck for d in ds]),
+            fcd=np.array([d.concrete.fcd for d in ds]),
+            fyk=np.array([d.steel.fyk for d in ds]),
+            fyd=np.array([d.steel.fyd for d in ds]),
             Es=np.array([d.steel.Es for d in ds]),
-            cover=np.array([s.cover for s in secs]), link=np.array([s.link for s in secs]),
+            cover=np.array([s.cover for s in secs]),
+            link=np.array([s.link for s in secs]),
             dia_max=np.array([s.bars.max_dia for s in secs]),
             dia_min=np.array([s.bars.min_dia for s in secs]),
             n_bars=np.array([s.bars.count for s in secs]),
             min_gap=np.array([float(np.min(s.clear_spacings())) for s in secs]),
             extra_ties=np.array(ties),
-            a_fire_min=np.array([a for a, _ in axis]), a_fire_mean=np.array([m for _, m in axis]),
-            Asl_y=tension[:, 0], Asl_z=tension[:, 1], dv_y=tension[:, 2], dv_z=tension[:, 3],
+            a_fire_min=np.array([a for a, _ in axis]),
+            a_fire_mean=np.array([m for _, m in axis]),
+            Asl_y=tension[:, 0],
+            Asl_z=tension[:, 1],
+            dv_y=tension[:, 2],
+            dv_z=tension[:, 3],
             fctm=np.array([float(fctm(d.concrete.fck)) for d in ds]),
             tr={k: np.array([float(getattr(x, k)) for x in trs]) for k in ("A", "Sy", "Sz", "Iyy", "Izz", "Iyz")},
         )
@@ -98,7 +110,8 @@ class SectionData:
     def transformed(self, idx: np.ndarray) -> serviceability.TransformedSection:
         """The uncracked transformed sections of pairs ``idx``."""
         return serviceability.TransformedSection(
-            **{k: v[idx] for k, v in self.tr.items()}, b=self.b[idx], h=self.h[idx], circular=self.circ[idx])
+            **{k: v[idx] for k, v in self.tr.items()}, b=self.b[idx], h=self.h[idx], circular=self.circ[idx]
+        )
 
 
 def _transformed(design: DesignSection) -> serviceability.TransformedSection:
@@ -132,8 +145,12 @@ def _tension_face(section: RectSection | CircSection) -> tuple[float, float, flo
         return asl, asl, d, d
     on_y = np.isclose(z, z.min(), atol=20.0)
     on_z = np.isclose(y, y.min(), atol=20.0)
-    return (float(area[on_y].sum()), float(area[on_z].sum()),
-            section.h / 2.0 + float(np.abs(z[on_y]).max()), section.b / 2.0 + float(np.abs(y[on_z]).max()))
+    return (
+        float(area[on_y].sum()),
+        float(area[on_z].sum()),
+        section.h / 2.0 + float(np.abs(z[on_y]).max()),
+        section.b / 2.0 + float(np.abs(y[on_z]).max()),
+    )
 
 
 def _axis_distances(section: RectSection | CircSection) -> tuple[float, float]:

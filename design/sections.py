@@ -108,8 +108,10 @@ class RectBars:
         for name in ("nb", "nh"):
             value = getattr(self, name)
             if int(value) != value or value < 2:
-                msg = (f"{name} counts the bars on one face including both corners "
-                       f"and must be an integer >= 2, got {name}={value}")
+                msg = (
+                    f"{name} counts the bars on one face including both corners "
+                    f"and must be an integer >= 2, got {name}={value}"
+                )
                 raise ValueError(msg)
         if self.corner_dia is not None and self.corner_dia == self.dia:
             object.__setattr__(self, "corner_dia", None)
@@ -225,8 +227,10 @@ class RectSection:
         inner_b = self.b - 2 * (self.cover + self.link) - self.bars.max_dia
         inner_h = self.h - 2 * (self.cover + self.link) - self.bars.max_dia
         if inner_b <= 0 or inner_h <= 0:
-            msg = (f"bars do not fit: {self.b:g}x{self.h:g} mm with cover {self.cover:g} mm, "
-                   f"link {self.link:g} mm and {self.bars.max_dia:g} mm bars")
+            msg = (
+                f"bars do not fit: {self.b:g}x{self.h:g} mm with cover {self.cover:g} mm, "
+                f"link {self.link:g} mm and {self.bars.max_dia:g} mm bars"
+            )
             raise ValueError(msg)
 
     @property
@@ -327,8 +331,10 @@ class CircSection:
             raise ValueError(msg)
         _check_common(self.cover, self.link)
         if self.bar_radius <= 0:
-            msg = (f"bars do not fit: diameter {self.diameter:g} mm with cover {self.cover:g} mm, "
-                   f"link {self.link:g} mm and {self.bars.dia:g} mm bars")
+            msg = (
+                f"bars do not fit: diameter {self.diameter:g} mm with cover {self.cover:g} mm, "
+                f"link {self.link:g} mm and {self.bars.dia:g} mm bars"
+            )
             raise ValueError(msg)
 
     @property
@@ -388,8 +394,7 @@ class CircSection:
 Section = RectSection | CircSection
 
 
-def check_bar_spacing(section: Section, dg: float = 20.0,
-                      params: NationalParameters = EN_RECOMMENDED) -> CheckResult:
+def check_bar_spacing(section: Section, dg: float = 20.0, params: NationalParameters = EN_RECOMMENDED) -> CheckResult:
     """Check the smallest clear gap between bars against 8.2(2) (rule in design.detailing.min_clear_spacing)."""
     required = float(min_clear_spacing(section.bars.max_dia, dg, params))
     provided = float(np.min(section.clear_spacings()))

@@ -137,8 +137,14 @@ def _bars(
     _require(ae >= 1.0, lambda: f"modular ratio alpha_e must be at least 1, got alpha_e={ae} (-)")
     w = (ae[..., None] - 1.0) * a
     own = w * a / (4.0 * np.pi)  # each round bar's own second moment, (alpha_e - 1) As^2 / (4 pi)
-    return (w.sum(-1), (w * y).sum(-1), (w * z).sum(-1), (w * y * y + own).sum(-1), (w * z * z + own).sum(-1),
-            (w * y * z).sum(-1))
+    return (
+        w.sum(-1),
+        (w * y).sum(-1),
+        (w * z).sum(-1),
+        (w * y * y + own).sum(-1),
+        (w * z * z + own).sum(-1),
+        (w * y * z).sum(-1),
+    )
 
 
 def transformed_rectangle(
@@ -165,7 +171,8 @@ def transformed_rectangle(
     _require((b > 0) & (h > 0), lambda: f"b and h must be positive, got b={b} mm, h={h} mm")
     n, sy, sz, iyy, izz, iyz = _bars(bar_y, bar_z, bar_area, alpha_e)
     A, Sy, Sz, Iyy, Izz, Iyz, bb, hh = np.broadcast_arrays(
-        b * h + n, sy, sz, h * b**3 / 12.0 + iyy, b * h**3 / 12.0 + izz, iyz, b, h)
+        b * h + n, sy, sz, h * b**3 / 12.0 + iyy, b * h**3 / 12.0 + izz, iyz, b, h
+    )
     return TransformedSection(A, Sy, Sz, Iyy, Izz, Iyz, bb, hh, np.zeros(A.shape, dtype=bool))
 
 
@@ -190,8 +197,7 @@ def transformed_circle(
     _require(D > 0, lambda: f"diameter must be positive, got D={D} mm")
     n, sy, sz, iyy, izz, iyz = _bars(bar_y, bar_z, bar_area, alpha_e)
     I0 = np.pi * D**4 / 64.0
-    A, Sy, Sz, Iyy, Izz, Iyz, dd = np.broadcast_arrays(
-        np.pi * D**2 / 4.0 + n, sy, sz, I0 + iyy, I0 + izz, iyz, D)
+    A, Sy, Sz, Iyy, Izz, Iyz, dd = np.broadcast_arrays(np.pi * D**2 / 4.0 + n, sy, sz, I0 + iyy, I0 + izz, iyz, D)
     return TransformedSection(A, Sy, Sz, Iyy, Izz, Iyz, dd, dd.copy(), np.ones(A.shape, dtype=bool))
 
 
@@ -265,8 +271,7 @@ def sigma_c_uncracked(
     circ_span = half_b * np.hypot(gy, gz)
     span = np.where(circ, circ_span, rect_span)
     smax, smin = s0 + span, s0 - span
-    return UncrackedStress(sigma_c_max=smax, sigma_c_min=smin, cracked=-smin > fct,
-                           sigma_0=s0, grad_y=gy, grad_z=gz)
+    return UncrackedStress(sigma_c_max=smax, sigma_c_min=smin, cracked=-smin > fct, sigma_0=s0, grad_y=gy, grad_z=gz)
 
 
 # --------------------------------------------------------------------------
@@ -360,17 +365,35 @@ def check_stress_limits(
     out: list[CheckResult] = []
     if needs_characteristic_limit(exp):
         limit = float(sigma_c_limit_characteristic(fck, params))
-        out.append(CheckResult(
-            "concrete stress, characteristic combination", "EN 1992-1-1, 7.2(2)",
-            demand=float(sigma_char), capacity=limit, unit="MPa",
-            note=not_valid if cracked_char else f"{exp.name}: sigma_c <= k1 fck = {params.k1_stress:g} fck "
-            "(longitudinal cracks)",
-            applicable=not cracked_char, kind=CheckKind.DURABILITY))
+        out.append(
+            CheckResult(
+                "concrete stress, characteristic combination",
+                "EN 1992-1-1, 7.2(2)",
+                demand=float(sigma_char),
+                capacity=limit,
+                unit="MPa",
+                note=not_valid
+                if cracked_char
+                else f"{exp.name}: sigma_c <= k1 fck = {params.k1_stress:g} fck (longitudinal cracks)",
+                applicable=not cracked_char,
+                kind=CheckKind.DURABILITY,
+            )
+        )
     limit = float(sigma_c_limit_quasi_permanent(fck, params))
-    out.append(CheckResult(
-        "concrete stress, quasi-permanent combination", "EN 1992-1-1, 7.2(3)",
-        demand=float(sigma_qp), capacity=limit, unit="MPa",
-        note=not_valid if cracked_qp else f"sigma_c <= k2 fck = {params.k2_stress:g} fck: beyond it creep is "
-        "non-linear and should be considered (3.1.4); a warning, not a failure of resistance",
-        applicable=not cracked_qp, extra={"level": "warning"}, kind=CheckKind.DURABILITY))
+    out.append(
+        CheckResult(
+            "concrete stress, quasi-permanent combination",
+            "EN 1992-1-1, 7.2(3)",
+            demand=float(sigma_qp),
+            capacity=limit,
+            unit="MPa",
+            note=not_valid
+            if cracked_qp
+            else f"sigma_c <= k2 fck = {params.k2_stress:g} fck: beyond it creep is "
+            "non-linear and should be considered (3.1.4); a warning, not a failure of resistance",
+            applicable=not cracked_qp,
+            extra={"level": "warning"},
+            kind=CheckKind.DURABILITY,
+        )
+    )
     return out

@@ -287,11 +287,7 @@ def alpha_cw(sigma_cp: ArrayLike, fcd: ArrayLike, axial_compression: bool = True
     if not axial_compression:
         return np.ones(np.broadcast(s, fcd).shape)
     r = s / fcd
-    return np.select(
-        [r <= 0.0, r <= 0.25, r <= 0.5, r <= 1.0],
-        [1.0, 1.0 + r, 1.25, 2.5 * (1.0 - r)],
-        default=0.0,
-    )
+    return np.select([r <= 0.0, r <= 0.25, r <= 0.5, r <= 1.0], [1.0, 1.0 + r, 1.25, 2.5 * (1.0 - r)], default=0.0)
 
 
 def VRd_s(Asw: ArrayLike, s: ArrayLike, z: ArrayLike, fywd: ArrayLike, cot_theta: ArrayLike) -> NDArray[np.float64]:
@@ -310,8 +306,10 @@ def VRd_s(Asw: ArrayLike, s: ArrayLike, z: ArrayLike, fywd: ArrayLike, cot_theta
     """
     Asw, s, z, fywd, cot = _arr(Asw), _arr(s), _arr(z), _arr(fywd), _arr(cot_theta)
     _require(Asw >= 0, lambda: f"Asw must not be negative, got Asw={Asw} mm2")
-    _require((s > 0) & (z > 0) & (fywd > 0),
-             lambda: f"s, z and fywd must be positive, got s={s} mm, z={z} mm, fywd={fywd} MPa")
+    _require(
+        (s > 0) & (z > 0) & (fywd > 0),
+        lambda: f"s, z and fywd must be positive, got s={s} mm, z={z} mm, fywd={fywd} MPa",
+    )
     return Asw / s * z * fywd * cot
 
 
@@ -443,8 +441,7 @@ class ShearArrays:
 
 def _ratio(demand: np.ndarray, capacity: np.ndarray) -> NDArray[np.float64]:
     with np.errstate(divide="ignore", invalid="ignore"):
-        return np.where(capacity > 0, demand / np.where(capacity > 0, capacity, 1.0),
-                        np.where(demand > 0, np.inf, 0.0))
+        return np.where(capacity > 0, demand / np.where(capacity > 0, capacity, 1.0), np.where(demand > 0, np.inf, 0.0))
 
 
 def shear_check_arrays(
@@ -500,8 +497,15 @@ def shear_check_arrays(
     V, vrdc, vrds, vrdmax, cot = np.broadcast_arrays(V, vrdc, vrds, vrdmax, cot)
     needs = V > vrdc
     util = np.where(needs, np.maximum(_ratio(V, vrds), _ratio(V, vrdmax)), _ratio(V, vrdc))
-    return ShearArrays(VEd=V.copy(), VRd_c=vrdc.copy(), VRd_s=vrds.copy(), VRd_max=vrdmax.copy(),
-                       cot_theta=cot.copy(), needs_links=needs, utilisation=util)
+    return ShearArrays(
+        VEd=V.copy(),
+        VRd_c=vrdc.copy(),
+        VRd_s=vrds.copy(),
+        VRd_max=vrdmax.copy(),
+        cot_theta=cot.copy(),
+        needs_links=needs,
+        utilisation=util,
+    )
 
 
 def check_shear(
@@ -549,21 +553,46 @@ def check_shear(
     """
     r = shear_check_arrays(VEd, bw, d, Asl, NEd, Ac, fck, fcd, Asw, s, fywd, z, params, axial_compression)
     suffix = f" ({direction})" if direction else ""
-    V, vrdc, vrds, vrdmax, cot = (float(r.VEd), float(r.VRd_c), float(r.VRd_s), float(r.VRd_max),
-                                  float(r.cot_theta))
+    V, vrdc, vrds, vrdmax, cot = (float(r.VEd), float(r.VRd_c), float(r.VRd_s), float(r.VRd_max), float(r.cot_theta))
     extra: dict[str, object] = {"VRd_c": vrdc, "VRd_s": vrds, "VRd_max": vrdmax, "cot_theta": cot}
     if not bool(r.needs_links):
-        return [CheckResult(f"shear, concrete only{suffix}", "EN 1992-1-1, 6.2.2(1), Eqs. (6.2a), (6.2b)",
-                            demand=V, capacity=vrdc, unit="N",
-                            note="VEd <= VRd,c: no shear links needed beyond those of 9.5.3 (6.2.1(4))",
-                            extra=extra, kind=CheckKind.RESISTANCE)]
+        return [
+            CheckResult(
+                f"shear, concrete only{suffix}",
+                "EN 1992-1-1, 6.2.2(1), Eqs. (6.2a), (6.2b)",
+                demand=V,
+                capacity=vrdc,
+                unit="N",
+                note="VEd <= VRd,c: no shear links needed beyond those of 9.5.3 (6.2.1(4))",
+                extra=extra,
+                kind=CheckKind.RESISTANCE,
+            )
+        ]
     # cot_theta_for gives nan (then 1 is used) only where VRd,max(cot = 1) < VEd.
-    strut_note = (f"cot(theta) = {cot:.3g}, the flattest strut with VRd,max >= VEd" if vrdmax >= V
-                  else "the strut crushes even at cot(theta) = 1 (theta = 45 degrees)")
+    strut_note = (
+        f"cot(theta) = {cot:.3g}, the flattest strut with VRd,max >= VEd"
+        if vrdmax >= V
+        else "the strut crushes even at cot(theta) = 1 (theta = 45 degrees)"
+    )
     return [
-        CheckResult(f"shear, links{suffix}", "EN 1992-1-1, 6.2.3(3), Eq. (6.8)", demand=V, capacity=vrds,
-                    unit="N", note=f"VEd > VRd,c = {vrdc:.4g} N; Asw/s = {Asw / s:.4g} mm2/mm, cot(theta) = {cot:.3g}",
-                    extra=extra, kind=CheckKind.RESISTANCE),
-        CheckResult(f"shear, strut{suffix}", "EN 1992-1-1, 6.2.3(3), Eq. (6.9)", demand=V, capacity=vrdmax,
-                    unit="N", note=strut_note, extra=extra, kind=CheckKind.RESISTANCE),
+        CheckResult(
+            f"shear, links{suffix}",
+            "EN 1992-1-1, 6.2.3(3), Eq. (6.8)",
+            demand=V,
+            capacity=vrds,
+            unit="N",
+            note=f"VEd > VRd,c = {vrdc:.4g} N; Asw/s = {Asw / s:.4g} mm2/mm, cot(theta) = {cot:.3g}",
+            extra=extra,
+            kind=CheckKind.RESISTANCE,
+        ),
+        CheckResult(
+            f"shear, strut{suffix}",
+            "EN 1992-1-1, 6.2.3(3), Eq. (6.9)",
+            demand=V,
+            capacity=vrdmax,
+            unit="N",
+            note=strut_note,
+            extra=extra,
+            kind=CheckKind.RESISTANCE,
+        ),
     ]

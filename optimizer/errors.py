@@ -5,8 +5,15 @@ from __future__ import annotations
 import difflib
 from collections.abc import Iterable, Mapping
 
-__all__ = ["ColstackError", "InputError", "DesignImpossible", "EXIT_INPUT", "EXIT_IMPOSSIBLE", "did_you_mean",
-           "reject_unknown_keys"]
+__all__ = [
+    "ColstackError",
+    "InputError",
+    "DesignImpossible",
+    "EXIT_INPUT",
+    "EXIT_IMPOSSIBLE",
+    "did_you_mean",
+    "reject_unknown_keys",
+]
 
 EXIT_INPUT = 2
 EXIT_IMPOSSIBLE = 3

@@ -1,4 +1,10 @@
-"""Shared pytest hooks: the robustness tally printed at the end of the run.
+"""Shared pytest fixtures and hooks.
+
+Fixtures: the small building of ``scenarios/`` loaded once per session (``small_scenario``) and its
+feasibility matrix (``small_matrix``: scenario, catalogue, actions, matrix), shared by every test
+module that works on it; paths of the bundled files are in ``tests/support/paths.py``.
+
+Hook: the robustness tally printed at the end of the run.
 
 The fuzz tests (tests/test_robustness_fuzz.py) feed bad inputs to the command
 line and record each outcome here through the ``robustness_tally`` fixture;
@@ -45,8 +51,10 @@ class RobustnessTally:
 
     def line(self) -> str:
         """The one-line summary."""
-        text = (f"robustness: {self.tried} bad inputs tried, {self.count('clean')} clean errors, "
-                f"{self.count('crash')} crashes")
+        text = (
+            f"robustness: {self.tried} bad inputs tried, {self.count('clean')} clean errors, "
+            f"{self.count('crash')} crashes"
+        )
         unclear = self.count("unclear")
         return text + (f", {unclear} unclear messages" if unclear else "")
 
@@ -55,12 +63,33 @@ _TALLY = pytest.StashKey[RobustnessTally]()
 
 
 @pytest.fixture(scope="session")
+def small_scenario():
+    """The bundled small building (scenarios/small_building.toml), loaded once."""
+    from optimizer.building.scenario import load_scenario
+    from tests.support import paths
+
+    return load_scenario(paths.SMALL)
+
+
+@pytest.fixture(scope="session")
+def small_matrix(small_scenario):
+    """(scenario, catalogue, actions, feasibility matrix) of the small building, computed once."""
+    from optimizer.building.takedown import scenario_actions
+    from optimizer.candidates.catalogue import build_catalogue
+    from optimizer.candidates.feasibility import feasibility
+
+    cat = build_catalogue(small_scenario)
+    act = scenario_actions(small_scenario)
+    return small_scenario, cat, act, feasibility(small_scenario, cat, act)
+
+
+@pytest.fixture(scope="session")
 def robustness_tally(pytestconfig: pytest.Config) -> RobustnessTally:
     """The session's robustness tally (kept in the config stash)."""
     return pytestconfig.stash.setdefault(_TALLY, RobustnessTally())
 
 
-def pytest_terminal_summary(terminalreporter, exitstatus, config) -> None:  # noqa: ARG001
+def pytest_terminal_summary(terminalreporter, exitstatus, config) -> None:
     """Print the robustness line when the fuzz tests ran."""
     tally = config.stash.get(_TALLY, None)
     if tally is None or tally.tried == 0:

@@ -24,7 +24,9 @@ from pathlib import Path
 import networkx as nx
 import pytest
 
-ROOT = Path(__file__).resolve().parent.parent
+from tests.support import paths
+
+ROOT = paths.ROOT
 PACKAGES = ("design", "optimizer")
 STAGES = ("building", "candidates", "schedule", "pipeline", "reporting", "studies", "cli")
 MAX_MODULES = 15
@@ -97,8 +99,13 @@ def _stage(module: str) -> str | None:
 
 
 def test_design_never_imports_optimizer():
-    bad = [f"{m} line {ln}: {t}" for m, imps in IMPORTS.items() if m.startswith("design")
-           for t, _, ln in imps if t.startswith("optimizer")]
+    bad = [
+        f"{m} line {ln}: {t}"
+        for m, imps in IMPORTS.items()
+        if m.startswith("design")
+        for t, _, ln in imps
+        if t.startswith("optimizer")
+    ]
     assert not bad, bad
 
 
@@ -120,8 +127,13 @@ def test_stages_import_only_earlier_stages():
 
 
 def test_nothing_outside_cli_imports_cli():
-    bad = [f"{m} line {ln}: {t}" for m, imps in IMPORTS.items() if _stage(m) != "cli"
-           for t, _, ln in imps if _stage(t) == "cli"]
+    bad = [
+        f"{m} line {ln}: {t}"
+        for m, imps in IMPORTS.items()
+        if _stage(m) != "cli"
+        for t, _, ln in imps
+        if _stage(t) == "cli"
+    ]
     assert not bad, bad
 
 

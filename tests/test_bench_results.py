@@ -16,7 +16,9 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-BENCH = Path(__file__).resolve().parent.parent / "bench"
+from tests.support import paths
+
+BENCH = paths.ROOT / "bench"
 
 
 def _load(name: str):
@@ -30,29 +32,59 @@ record = _load("record")
 quote = _load("quote")
 
 TINY_INPUTS = {"n_sections": 3, "n_pairs": 12, "label": "tiny"}
-TINY_FIGURES = {"total_s": 0.125, "pairs_per_s": 96.0, "peak_MB": 41.5, "target_s": 1.0, "ratio_to_target": 0.125,
-                "stages_s": {"build": 0.025, "solve": 0.1}, "gap_pct": np.float64(0.04), "n_types": np.int64(7),
-                "missing_ms": float("nan")}
+TINY_FIGURES = {
+    "total_s": 0.125,
+    "pairs_per_s": 96.0,
+    "peak_MB": 41.5,
+    "target_s": 1.0,
+    "ratio_to_target": 0.125,
+    "stages_s": {"build": 0.025, "solve": 0.1},
+    "gap_pct": np.float64(0.04),
+    "n_types": np.int64(7),
+    "missing_ms": float("nan"),
+}
 
-RESISTANCE_INPUTS = {"n_sections": 2, "n_NEd_per_section": 5, "n_pairs": 10, "NEd_from_ratio": -0.2,
-                     "NEd_to_ratio": 1.0, "n_scalar_sample": 2, "reference_library": "concreteproperties"}
-RESISTANCE_FIGURES = {"build_s": 0.01, "solve_s": 0.02, "total_s": 0.03, "pairs_per_s": 333.333,
-                      "target_pairs_per_s": 500_000, "ratio_to_target": 0.000666667, "peak_MB": 147.4,
-                      "target_peak_MB": 2048, "scalar_ms_per_pair": 38.2, "scalar_over_vectorised_x": 12.7,
-                      "scalar_max_rel_diff_ratio": 4.7e-11, "reference_ms_per_call": 615.0,
-                      "reference_over_vectorised_x": 205.0}
+RESISTANCE_INPUTS = {
+    "n_sections": 2,
+    "n_NEd_per_section": 5,
+    "n_pairs": 10,
+    "NEd_from_ratio": -0.2,
+    "NEd_to_ratio": 1.0,
+    "n_scalar_sample": 2,
+    "reference_library": "concreteproperties",
+}
+RESISTANCE_FIGURES = {
+    "build_s": 0.01,
+    "solve_s": 0.02,
+    "total_s": 0.03,
+    "pairs_per_s": 333.333,
+    "target_pairs_per_s": 500_000,
+    "ratio_to_target": 0.000666667,
+    "peak_MB": 147.4,
+    "target_peak_MB": 2048,
+    "scalar_ms_per_pair": 38.2,
+    "scalar_over_vectorised_x": 12.7,
+    "scalar_max_rel_diff_ratio": 4.7e-11,
+    "reference_ms_per_call": 615.0,
+    "reference_over_vectorised_x": 205.0,
+}
 
 
 def _write(tmp_path: Path, name: str, inputs: dict, figures: dict) -> Path:
     started = record.machine(["numpy"])
-    return record.write_result(name, started, inputs, figures, note="tiny fake result", results_dir=tmp_path,
-                               script=f"bench/bench_{name}.py")
+    return record.write_result(
+        name, started, inputs, figures, note="tiny fake result", results_dir=tmp_path, script=f"bench/bench_{name}.py"
+    )
 
 
 def _page(tmp_path: Path, blocks: str) -> Path:
     page = tmp_path / "DEVELOPERS.md"
-    page.write_text("# colstack\n\n## Benchmarks\n\n`make bench` runs the benchmarks.\n\n" + blocks
-                    + "\n## Working on an issue\n\nCommit early.\n", encoding="utf-8")
+    page.write_text(
+        "# colstack\n\n## Benchmarks\n\n`make bench` runs the benchmarks.\n\n"
+        + blocks
+        + "\n## Working on an issue\n\nCommit early.\n",
+        encoding="utf-8",
+    )
     return page
 
 
@@ -91,15 +123,18 @@ def test_writer_refuses_a_figure_whose_key_names_no_unit(tmp_path, figures):
 def test_labels_need_no_unit_and_units_are_read_from_the_key():
     assert record.keys_without_unit({"status": "optimal", "quick": True, "skipped": ["tower"]}) == []
     assert record.keys_without_unit({"cases": {"demo": {"runs": {"paths": {"time": 1.0}}}}}) == [
-        "cases.demo.runs.paths.time"]
+        "cases.demo.runs.paths.time"
+    ]
     assert all(record.has_unit(k) for k in ("scalar_ms_per_pair", "steel_t", "speedup_x", "n_cells", "peak_GB"))
     assert not any(record.has_unit(k) for k in ("s", "cells", "status", "time", "x"))
 
 
-@pytest.mark.parametrize("name,inputs,figures", [("tiny", TINY_INPUTS, TINY_FIGURES),
-                                                 ("resistance", RESISTANCE_INPUTS, RESISTANCE_FIGURES)])
+@pytest.mark.parametrize(
+    "name,inputs,figures", [("tiny", TINY_INPUTS, TINY_FIGURES), ("resistance", RESISTANCE_INPUTS, RESISTANCE_FIGURES)]
+)
 def test_check_passes_on_a_page_quoting_the_records_and_fails_on_a_changed_figure(
-        tmp_path, capsys, name, inputs, figures):
+    tmp_path, capsys, name, inputs, figures
+):
     results = tmp_path / "results"
     _write(results, name, inputs, figures)
     assert quote.main(["--results", str(results)]) == 0

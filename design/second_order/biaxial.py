@@ -102,13 +102,7 @@ def relative_eccentricity_ok(
 
 
 def no_biaxial_check_needed(
-    lam_y: ArrayLike,
-    lam_z: ArrayLike,
-    MEdy: ArrayLike,
-    MEdz: ArrayLike,
-    NEd: ArrayLike,
-    iy: ArrayLike,
-    iz: ArrayLike,
+    lam_y: ArrayLike, lam_z: ArrayLike, MEdy: ArrayLike, MEdz: ArrayLike, NEd: ArrayLike, iy: ArrayLike, iz: ArrayLike
 ) -> NDArray[np.bool_]:
     """Whether both Eq. (5.38a) and Eq. (5.38b) hold (no further check).
 
@@ -128,9 +122,7 @@ def no_biaxial_check_needed(
     return slenderness_ratio_ok(lam_y, lam_z) & relative_eccentricity_ok(MEdy, MEdz, NEd, iy, iz)
 
 
-def exponent_a(
-    NEd: ArrayLike, NRd: ArrayLike, shape: SectionShape = SectionShape.RECTANGULAR
-) -> NDArray[np.float64]:
+def exponent_a(NEd: ArrayLike, NRd: ArrayLike, shape: SectionShape = SectionShape.RECTANGULAR) -> NDArray[np.float64]:
     """Exponent a of the biaxial interaction (-).
 
     EN 1992-1-1, 5.8.9(4), Eq. (5.39)

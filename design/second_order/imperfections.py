@@ -19,16 +19,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from design.params import EN_RECOMMENDED, NationalParameters
 
-__all__ = [
-    "ImperfectionMethod",
-    "alpha_h",
-    "alpha_m",
-    "theta_i",
-    "ei_inclination",
-    "ei_simplified",
-    "ei",
-    "e0_min",
-]
+__all__ = ["ImperfectionMethod", "alpha_h", "alpha_m", "theta_i", "ei_inclination", "ei_simplified", "ei", "e0_min"]
 
 
 def _arr(x: ArrayLike) -> NDArray[np.float64]:
@@ -82,9 +73,7 @@ def alpha_m(m: ArrayLike) -> NDArray[np.float64]:
     return np.sqrt(0.5 * (1.0 + 1.0 / m))
 
 
-def theta_i(
-    l: ArrayLike, m: ArrayLike = 1.0, params: NationalParameters = EN_RECOMMENDED
-) -> NDArray[np.float64]:
+def theta_i(l: ArrayLike, m: ArrayLike = 1.0, params: NationalParameters = EN_RECOMMENDED) -> NDArray[np.float64]:
     """Inclination imperfection theta_i = theta_0 alpha_h alpha_m, rad.
 
     EN 1992-1-1, Eq. (5.1)

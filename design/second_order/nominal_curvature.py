@@ -31,14 +31,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from design.params import EN_RECOMMENDED, NationalParameters
 from design.second_order.imperfections import ImperfectionMethod, e0_min, ei
-from design.second_order.slenderness import (
-    i_rectangle,
-    lambda_lim,
-    n_relative,
-    omega_mechanical,
-    r_m,
-    slenderness,
-)
+from design.second_order.slenderness import i_rectangle, lambda_lim, n_relative, omega_mechanical, r_m, slenderness
 
 __all__ = [
     "first_order_end_moments",
@@ -131,8 +124,10 @@ def M0e(M01: ArrayLike, M02: ArrayLike) -> NDArray[np.float64]:
 
     """
     M01, M02 = _arr(M01), _arr(M02)
-    _require(np.abs(M02) >= np.abs(M01) - 1e-9 * np.abs(M02),
-             lambda: f"|M02| must be >= |M01| (EN 1992-1-1, 5.8.8.2(2)), got M01={M01}, M02={M02} N mm")
+    _require(
+        np.abs(M02) >= np.abs(M01) - 1e-9 * np.abs(M02),
+        lambda: f"|M02| must be >= |M01| (EN 1992-1-1, 5.8.8.2(2)), got M01={M01}, M02={M02} N mm",
+    )
     s = np.where(M02 < 0, -1.0, 1.0)
     a01, a02 = s * M01, s * M02
     return s * np.maximum(0.6 * a02 + 0.4 * a01, 0.4 * a02)
@@ -340,12 +335,8 @@ def design_moment_second_order(
     """
     M01, M02, M2_ = _arr(M01), _arr(M02), _arr(M2)
     m0e = np.abs(M0e(M01, M02))
-    return np.maximum.reduce([  # type: ignore[no-any-return]  # numpy stubs: ufunc.reduce is Any
-        m0e + M2_,
-        np.abs(M02),
-        np.abs(M01) + 0.5 * M2_,
-        np.maximum(_arr(NEd), 0.0) * _arr(e0) * np.ones_like(m0e),
-    ])
+    terms = [m0e + M2_, np.abs(M02), np.abs(M01) + 0.5 * M2_, np.maximum(_arr(NEd), 0.0) * _arr(e0) * np.ones_like(m0e)]
+    return np.maximum.reduce(terms)  # type: ignore[no-any-return]  # numpy stubs: ufunc.reduce is Any
 
 
 @dataclass(frozen=True)
@@ -453,13 +444,17 @@ def nominal_curvature(
     ecc2 = e2(curv, l0, c)
     slender = lam > lim.lambda_lim
     m2 = np.where(slender, M2(NEd, ecc2), 0.0)
-    MEd = np.where(
-        slender,
-        design_moment_second_order(NEd, M01, M02, m2, e0),
-        design_moment_first_order(NEd, M02, e0),
-    )
+    MEd = np.where(slender, design_moment_second_order(NEd, M01, M02, m2, e0), design_moment_first_order(NEd, M02, e0))
     return NominalCurvatureResult(
-        MEd=MEd, slender=slender, M01=M01, M02=M02, M0e=M0e(M01, M02), M2=m2,
-        e2=np.where(slender, ecc2, 0.0), Kr=kr, Kphi=kphi, inv_r=curv,
+        MEd=MEd,
+        slender=slender,
+        M01=M01,
+        M02=M02,
+        M0e=M0e(M01, M02),
+        M2=m2,
+        e2=np.where(slender, ecc2, 0.0),
+        Kr=kr,
+        Kphi=kphi,
+        inv_r=curv,
         lambda_lim=lim.lambda_lim,
     )

@@ -19,15 +19,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from design.params import EN_RECOMMENDED, NationalParameters
 
-__all__ = [
-    "Ecd",
-    "k1_stiffness",
-    "k2_stiffness",
-    "EI_nominal",
-    "NB_buckling",
-    "beta_c0",
-    "magnification",
-]
+__all__ = ["Ecd", "k1_stiffness", "k2_stiffness", "EI_nominal", "NB_buckling", "beta_c0", "magnification"]
 
 
 def _arr(x: ArrayLike) -> NDArray[np.float64]:
@@ -166,9 +158,7 @@ def beta_c0(c0: ArrayLike) -> NDArray[np.float64]:
     return np.pi**2 / c0
 
 
-def magnification(
-    M0Ed: ArrayLike, NEd: ArrayLike, NB: ArrayLike, c0: ArrayLike = 8.0
-) -> NDArray[np.float64]:
+def magnification(M0Ed: ArrayLike, NEd: ArrayLike, NB: ArrayLike, c0: ArrayLike = 8.0) -> NDArray[np.float64]:
     """Total design moment MEd = M0Ed (1 + beta / (NB/NEd - 1)), N mm.
 
     EN 1992-1-1, Eq. (5.28)

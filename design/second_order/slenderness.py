@@ -125,8 +125,10 @@ def l0_unbraced(
     """
     l, k1, k2 = _arr(l), _arr(k1), _arr(k2)
     _require(l > 0, lambda: f"clear height l must be positive, got l={l} mm")
-    _require((k1 >= 0) & (k2 >= 0) & np.isfinite(k1) & np.isfinite(k2),
-             lambda: f"k1, k2 must be finite and not negative, got k1={k1}, k2={k2} (-)")
+    _require(
+        (k1 >= 0) & (k2 >= 0) & np.isfinite(k1) & np.isfinite(k2),
+        lambda: f"k1, k2 must be finite and not negative, got k1={k1}, k2={k2} (-)",
+    )
     r1, r2 = k_restraint(k1, params), k_restraint(k2, params)  # raised to the minimum of 5.8.3.2(3)
     s = r1 + r2
     a = np.sqrt(1.0 + 10.0 * np.divide(r1 * r2, s, out=np.zeros_like(s * 1.0), where=s > 0))

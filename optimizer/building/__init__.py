@@ -23,15 +23,7 @@ from optimizer.building.actions_csv import (
 )
 from optimizer.building.generate import TowerSpec, generate_tower, generate_tower_toml
 from optimizer.building.graph import build_stack_graph, cell_above, cell_below
-from optimizer.building.model import (
-    Cell,
-    CellId,
-    Level,
-    Orientation,
-    Scenario,
-    Stack,
-    SupportKind,
-)
+from optimizer.building.model import Cell, CellId, Level, Orientation, Scenario, Stack, SupportKind
 from optimizer.building.plausibility import plausibility_warnings
 from optimizer.building.scenario import fire_requirement, load_scenario, load_scenario_text
 from optimizer.building.tables import MISSING, TomlTable

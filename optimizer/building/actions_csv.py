@@ -22,8 +22,7 @@ from optimizer.errors import InputError, did_you_mean
 __all__ = ["ACTION_COLUMNS", "OPTIONAL_COLUMNS", "K_COLUMNS", "read_actions_csv", "write_actions_csv"]
 
 # Required in every actions table (kN, kNm; compression positive; moments about the local axes).
-ACTION_COLUMNS = ("stack", "level", "NEd_kN", "My_top_kNm", "My_bot_kNm", "Mz_top_kNm",
-                  "Mz_bot_kNm")
+ACTION_COLUMNS = ("stack", "level", "NEd_kN", "My_top_kNm", "My_bot_kNm", "Mz_top_kNm", "Mz_bot_kNm")
 # Optional; blank lengths, exposure and fire come from the scenario's [[settings]], blank ratios are unknown.
 OPTIONAL_COLUMNS = ("l0y_mm", "l0z_mm", "exposure", "fire", "M0Eqp_ratio", "char_ratio")
 K_COLUMNS = ("k1y", "k2y", "k1z", "k2z")  # EN 1992-1-1, 5.8.3.2(3): all four or none
@@ -40,8 +39,7 @@ def write_actions_csv(actions: pd.DataFrame, path: str | Path) -> Path:
     if missing:
         msg = f"actions table lacks columns {missing}"
         raise ValueError(msg)
-    cols = list(ACTION_COLUMNS) + [c for c in (*OPTIONAL_COLUMNS, *K_COLUMNS)
-                                   if c in actions.columns]
+    cols = list(ACTION_COLUMNS) + [c for c in (*OPTIONAL_COLUMNS, *K_COLUMNS) if c in actions.columns]
     out = Path(path)
     out.parent.mkdir(parents=True, exist_ok=True)
     actions[cols].to_csv(out, index=False, float_format="%.3f", lineterminator="\n")
@@ -61,7 +59,7 @@ def _csv_float(file: str, row: int, col: str, text: str, minimum: float | None =
     return x
 
 
-def read_actions_csv(path: str | Path, scenario: Scenario) -> pd.DataFrame:
+def read_actions_csv(path: str | Path, scenario: Scenario) -> pd.DataFrame:  # noqa: PLR0912 - reads and validates one input file, one branch per column rule
     """Read per-cell actions from an analysis and check them against the scenario.
 
     Required columns :data:`ACTION_COLUMNS`; optional :data:`OPTIONAL_COLUMNS`
@@ -86,34 +84,43 @@ def read_actions_csv(path: str | Path, scenario: Scenario) -> pd.DataFrame:
     known = (*ACTION_COLUMNS, *OPTIONAL_COLUMNS, *K_COLUMNS)
     missing = [c for c in ACTION_COLUMNS if c not in header]
     if missing:
-        raise InputError(file, "row 1 (header)", ", ".join(missing),
-                         f"these required columns (header must contain {', '.join(ACTION_COLUMNS)})")
+        raise InputError(
+            file,
+            "row 1 (header)",
+            ", ".join(missing),
+            f"these required columns (header must contain {', '.join(ACTION_COLUMNS)})",
+        )
     for h in header:
         if h not in known:
-            raise InputError(file, "row 1 (header)", h,
-                             f"a known column{did_you_mean(h, known)} (known: {', '.join(known)})")
+            raise InputError(
+                file, "row 1 (header)", h, f"a known column{did_you_mean(h, known)} (known: {', '.join(known)})"
+            )
     if len(set(header)) != len(header):
         raise InputError(file, "row 1 (header)", header, "each column once")
     if any(k in header for k in K_COLUMNS) and not all(k in header for k in K_COLUMNS):
-        raise InputError(file, "row 1 (header)", [k for k in K_COLUMNS if k in header],
-                         "all four of k1y, k2y, k1z, k2z or none")
+        raise InputError(
+            file, "row 1 (header)", [k for k in K_COLUMNS if k in header], "all four of k1y, k2y, k1z, k2z or none"
+        )
     records: dict[CellId, dict[str, Any]] = {}
     for n, raw in enumerate(rows[1:], start=2):
         if not any(v.strip() for v in raw):
             continue
         if len(raw) != len(header):
-            raise InputError(file, f"row {n}", ",".join(raw),
-                             f"{len(header)} values like the header (found {len(raw)})")
+            raise InputError(
+                file, f"row {n}", ",".join(raw), f"{len(header)} values like the header (found {len(raw)})"
+            )
         rec = dict(zip(header, (v.strip() for v in raw), strict=True))
         records_key = _csv_cell(file, n, rec, scenario)
         if records_key in records:
-            raise InputError(file, f"row {n}", f"{rec['stack']},{rec['level']}",
-                             "one row per cell (this cell appears twice)")
+            raise InputError(
+                file, f"row {n}", f"{rec['stack']},{rec['level']}", "one row per cell (this cell appears twice)"
+            )
         records[records_key] = _csv_record(file, n, rec)
     for c in scenario.cells:
         if c.id not in records:
-            raise InputError(file, "rows", f"{c.stack},{c.level}",
-                             "a row for every cell of the scenario (this one is missing)")
+            raise InputError(
+                file, "rows", f"{c.stack},{c.level}", "a row for every cell of the scenario (this one is missing)"
+            )
     return _actions_frame(scenario, records, header)
 
 
@@ -122,16 +129,18 @@ def _csv_cell(file: str, n: int, rec: Mapping[str, str], scenario: Scenario) -> 
     ids = [s.id for s in scenario.stacks]
     names = [lv.name for lv in scenario.levels]
     if stack not in ids:
-        raise InputError(file, f"row {n}, column stack", stack,
-                         f"a stack of the scenario{did_you_mean(stack, ids)}")
+        raise InputError(file, f"row {n}, column stack", stack, f"a stack of the scenario{did_you_mean(stack, ids)}")
     if level not in names:
-        raise InputError(file, f"row {n}, column level", level,
-                         f"a level of the scenario{did_you_mean(level, names)}")
+        raise InputError(file, f"row {n}, column level", level, f"a level of the scenario{did_you_mean(level, names)}")
     cid = CellId(stack, level)
     if not scenario.has_cell(cid):
         st = scenario.stack(stack)
-        raise InputError(file, f"row {n}, column level", level,
-                         f"a level stack {stack!r} runs through ({st.from_level}..{st.to_level})")
+        raise InputError(
+            file,
+            f"row {n}, column level",
+            level,
+            f"a level stack {stack!r} runs through ({st.from_level}..{st.to_level})",
+        )
     return cid
 
 
@@ -155,8 +164,10 @@ def _csv_record(file: str, n: int, rec: Mapping[str, str]) -> dict[str, Any]:
         out["exposure"] = exposure_value(file, f"row {n}, column exposure", rec["exposure"])
     if rec.get("fire", ""):
         out["fire"] = fire_value(file, f"row {n}, column fire", rec["fire"])
-    for col, what in (("M0Eqp_ratio", "M0Eqp/M0Ed between 0 and 1.5 (quasi-permanent over design first-order moment)"),
-                      ("char_ratio", "a ratio between 0 and 1.5 (characteristic over design actions)")):
+    for col, what in (
+        ("M0Eqp_ratio", "M0Eqp/M0Ed between 0 and 1.5 (quasi-permanent over design first-order moment)"),
+        ("char_ratio", "a ratio between 0 and 1.5 (characteristic over design actions)"),
+    ):
         if rec.get(col, ""):
             x = _csv_float(file, n, col, rec[col], 0.0)
             if x > 1.5:
@@ -165,11 +176,10 @@ def _csv_record(file: str, n: int, rec: Mapping[str, str]) -> dict[str, Any]:
     return out
 
 
-def _actions_frame(scenario: Scenario, records: Mapping[CellId, dict[str, Any]],
-                   header: list[str]) -> pd.DataFrame:
+def _actions_frame(scenario: Scenario, records: Mapping[CellId, dict[str, Any]], header: list[str]) -> pd.DataFrame:
     any_k = any(k in header for k in K_COLUMNS) or any(
-        c.settings.effective_length is not None and not c.settings.effective_length.uses_factors
-        for c in scenario.cells)
+        c.settings.effective_length is not None and not c.settings.effective_length.uses_factors for c in scenario.cells
+    )
     rows = []
     for c in scenario.cells:
         rec = records[c.id]

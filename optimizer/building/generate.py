@@ -63,8 +63,7 @@ class TowerSpec:
         if self.storeys < 1 or self.stacks < 1:
             msg = f"need at least 1 storey and 1 stack, got {self.storeys} x {self.stacks}"
             raise ValueError(msg)
-        for name in ("bay_x_m", "bay_y_m", "ground_height_m", "storey_height_m",
-                     "slab_depth_mm"):
+        for name in ("bay_x_m", "bay_y_m", "ground_height_m", "storey_height_m", "slab_depth_mm"):
             if not getattr(self, name) > 0:
                 msg = f"{name} must be positive, got {getattr(self, name)}"
                 raise ValueError(msg)
@@ -88,8 +87,7 @@ def _outline(spec: TowerSpec) -> list[tuple[float, float]]:
         parts.append(box(-e, -e, (nx - 1) * spec.bay_x_m + e, (full_rows - 1) * spec.bay_y_m + e))
     if rest:
         y = full_rows * spec.bay_y_m
-        parts.append(box(-e, y - spec.bay_y_m if full_rows else -e,
-                         (rest - 1) * spec.bay_x_m + e, y + e))
+        parts.append(box(-e, y - spec.bay_y_m if full_rows else -e, (rest - 1) * spec.bay_x_m + e, y + e))
     shape = unary_union(parts).simplify(1e-9)
     coords = list(shape.exterior.coords)[:-1]
     return [(round(x, 6), round(y, 6)) for x, y in coords]
@@ -124,34 +122,59 @@ def generate_tower_toml(spec: TowerSpec) -> str:
     ]
     for i, name in enumerate(names):
         h = spec.ground_height_m if i == 0 else spec.storey_height_m
-        lines += ["[[levels]]", f'name = "{name}"', f"height_m = {h:g}",
-                  f"slab_depth_mm = {spec.slab_depth_mm:g}", ""]
+        lines += ["[[levels]]", f'name = "{name}"', f"height_m = {h:g}", f"slab_depth_mm = {spec.slab_depth_mm:g}", ""]
     rng = np.random.default_rng(spec.seed)
-    shift = rng.uniform(-spec.jitter_m, spec.jitter_m, size=(spec.stacks, 2)) if spec.jitter_m > 0 else \
-        np.zeros((spec.stacks, 2))
+    shift = (
+        rng.uniform(-spec.jitter_m, spec.jitter_m, size=(spec.stacks, 2))
+        if spec.jitter_m > 0
+        else np.zeros((spec.stacks, 2))
+    )
     for k in range(spec.stacks):
         row, col = divmod(k, nx)
         x = round(col * spec.bay_x_m + shift[k, 0], 3)
         y = round(row * spec.bay_y_m + shift[k, 1], 3)
-        lines += ["[[stacks]]", f'id = "S{k + 1:03d}"', f"x_m = {x:g}",
-                  f"y_m = {y:g}", f'from_level = "{names[0]}"',
-                  f'to_level = "{names[-1]}"', 'stands_on = "foundation"', ""]
+        lines += [
+            "[[stacks]]",
+            f'id = "S{k + 1:03d}"',
+            f"x_m = {x:g}",
+            f"y_m = {y:g}",
+            f'from_level = "{names[0]}"',
+            f'to_level = "{names[-1]}"',
+            'stands_on = "foundation"',
+            "",
+        ]
     outline = _fmt_points(_outline(spec))
     floor_levels = [(names[0], names[-2], spec.sdl_kPa, spec.imposed_kPa, "B")] if n > 1 else []
     floor_levels.append((names[-1], names[-1], spec.roof_sdl_kPa, spec.roof_imposed_kPa, "H"))
     for lo, hi, sdl, q, cat in floor_levels:
-        lines += ["[[floors]]", f'levels = ["{lo}", "{hi}"]', f"outline_m = {outline}",
-                  f"sdl_kPa = {sdl:g}", f"imposed_kPa = {q:g}", f'category = "{cat}"',
-                  f"facade_kN_m = {spec.facade_kN_m:g}", ""]
+        lines += [
+            "[[floors]]",
+            f'levels = ["{lo}", "{hi}"]',
+            f"outline_m = {outline}",
+            f"sdl_kPa = {sdl:g}",
+            f"imposed_kPa = {q:g}",
+            f'category = "{cat}"',
+            f"facade_kN_m = {spec.facade_kN_m:g}",
+            "",
+        ]
     b, h = spec.trial_size_mm
-    lines += ["[[settings]]", 'exposure = "XC1"', 'fire = "R90"', "braced = true",
-              "l0_factor = 1.0", f"trial_size_mm = [{b:g}, {h:g}]", "",
-              "[takedown]", 'combination = "6.10a+6.10b"', 'imposed_reduction = "alpha_n"', ""]
+    lines += [
+        "[[settings]]",
+        'exposure = "XC1"',
+        'fire = "R90"',
+        "braced = true",
+        "l0_factor = 1.0",
+        f"trial_size_mm = [{b:g}, {h:g}]",
+        "",
+        "[takedown]",
+        'combination = "6.10a+6.10b"',
+        'imposed_reduction = "alpha_n"',
+        "",
+    ]
     return "\n".join(lines)
 
 
 def generate_tower(storeys: int, stacks: int, **options: object) -> Scenario:
     """A validated synthetic tower of ``storeys`` x ``stacks`` (options: :class:`TowerSpec`)."""
     spec = TowerSpec(storeys, stacks, **options)  # type: ignore[arg-type]
-    return load_scenario_text(generate_tower_toml(spec),
-                              source=f"<generated tower {storeys}x{stacks}>")
+    return load_scenario_text(generate_tower_toml(spec), source=f"<generated tower {storeys}x{stacks}>")

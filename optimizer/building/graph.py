@@ -36,8 +36,7 @@ def build_stack_graph(scenario: Scenario) -> nx.DiGraph:
     """Directed graph of cells, edges from each cell to the cells that carry it."""
     g = nx.DiGraph()
     for c in scenario.cells:
-        g.add_node(c.id, index=c.index, stack=c.stack, level=c.level,
-                   level_index=c.level_index, support=None)
+        g.add_node(c.id, index=c.index, stack=c.stack, level=c.level, level_index=c.level_index, support=None)
     for st in scenario.stacks:
         names = scenario.stack_levels(st.id)
         for upper, lower in zip(names[1:], names[:-1], strict=True):
@@ -49,8 +48,12 @@ def build_stack_graph(scenario: Scenario) -> nx.DiGraph:
             for other, share in st.carried_by:
                 target = CellId(other, below)
                 if not scenario.has_cell(target):
-                    raise InputError(scenario.source, f"stacks[{st.index}].stands_on.{other}",
-                                     other, f"a stack that runs through level {below!r}")
+                    raise InputError(
+                        scenario.source,
+                        f"stacks[{st.index}].stands_on.{other}",
+                        other,
+                        f"a stack that runs through level {below!r}",
+                    )
                 g.add_edge(bottom, target, share=share, kind="transfer")
     check_acyclic(g, scenario.source)
     _check_shares(g, scenario)
@@ -65,8 +68,7 @@ def check_acyclic(graph: nx.DiGraph, source: str = "<graph>") -> None:
         cycle = nx.find_cycle(graph)
     except nx.NetworkXNoCycle:
         return
-    names = " -> ".join([f"({a[0]}, {a[1]})" for a, _ in cycle] + [f"({cycle[0][0][0]}, "
-                                                                      f"{cycle[0][0][1]})"])
+    names = " -> ".join([f"({a[0]}, {a[1]})" for a, _ in cycle] + [f"({cycle[0][0][0]}, {cycle[0][0][1]})"])
     raise InputError(source, "stacks.stands_on", names, "cells that do not carry each other in a cycle")
 
 
@@ -75,8 +77,7 @@ def _check_shares(graph: nx.DiGraph, scenario: Scenario) -> None:
         out = [d["share"] for _, _, d in graph.out_edges(node, data=True)]
         if out and abs(sum(out) - 1.0) > 1e-6:
             st = scenario.stack(node[0])
-            raise InputError(scenario.source, f"stacks[{st.index}].stands_on", sum(out),
-                             "shares summing to 1")
+            raise InputError(scenario.source, f"stacks[{st.index}].stands_on", sum(out), "shares summing to 1")
 
 
 def cell_above(graph: nx.DiGraph, cell: CellId) -> CellId | None:
@@ -110,5 +111,8 @@ def load_order(graph: nx.DiGraph) -> Iterator[CellId]:
 
     Ties are broken top level first, then by cell index, so the order is stable.
     """
-    return iter(nx.lexicographical_topological_sort(
-        graph, key=lambda n: (-graph.nodes[n]["level_index"], graph.nodes[n]["index"])))
+    return iter(
+        nx.lexicographical_topological_sort(
+            graph, key=lambda n: (-graph.nodes[n]["level_index"], graph.nodes[n]["index"])
+        )
+    )

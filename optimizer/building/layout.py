@@ -39,8 +39,7 @@ POSITION_TOLERANCE_M = 0.05
 def _identifier(t: TomlTable, name: str) -> str:
     value = t.str_(name)
     if not _ID_RE.match(value):
-        raise InputError(t.file, t.key(name), value,
-                         "letters, digits, '_', '-' or '.' only (no spaces or commas)")
+        raise InputError(t.file, t.key(name), value, "letters, digits, '_', '-' or '.' only (no spaces or commas)")
     return value
 
 
@@ -72,9 +71,12 @@ def read_levels(top: TomlTable) -> tuple[Level, ...]:
         height = t.num("height_m", positive=True, maximum=1e4)
         slab = t.num("slab_depth_mm", minimum=0.0, maximum=1e5)
         if slab >= height * 1000.0:
-            raise InputError(t.file, t.key("slab_depth_mm"), slab,
-                             f"a slab depth smaller than the floor-to-floor height "
-                             f"({height * 1000:g} mm)")
+            raise InputError(
+                t.file,
+                t.key("slab_depth_mm"),
+                slab,
+                f"a slab depth smaller than the floor-to-floor height ({height * 1000:g} mm)",
+            )
         cat = t.choice("category", Category, required=False)
         t.done()
         levels.append(Level(name, i, height, slab, elevation, cat))
@@ -82,15 +84,12 @@ def read_levels(top: TomlTable) -> tuple[Level, ...]:
     return tuple(levels)
 
 
-def level_range(file: str, key: str, value: object, index: Mapping[str, int],
-                names: Sequence[str]) -> tuple[str, ...]:
+def level_range(file: str, key: str, value: object, index: Mapping[str, int], names: Sequence[str]) -> tuple[str, ...]:
     """A level range [first, last] (inclusive, bottom to top) or a single level name."""
     if isinstance(value, str):
         value = [value]
-    if not isinstance(value, list) or len(value) not in (1, 2) or not all(
-        isinstance(v, str) for v in value
-    ):
-        raise InputError(file, key, value, "a level name or a range [\"FIRST\", \"LAST\"]")
+    if not isinstance(value, list) or len(value) not in (1, 2) or not all(isinstance(v, str) for v in value):
+        raise InputError(file, key, value, 'a level name or a range ["FIRST", "LAST"]')
     for v in value:
         if v not in index:
             raise InputError(file, key, v, f"a known level name{did_you_mean(v, index)}")
@@ -132,8 +131,7 @@ def read_stacks(top: TomlTable, levels: Sequence[Level]) -> tuple[Stack, ...]:
             if v not in index:
                 raise InputError(t.file, t.key(key), v, f"a known level name{did_you_mean(v, index)}")
         if index[lo] > index[hi]:
-            raise InputError(t.file, t.key("to_level"), hi,
-                             f"a level at or above from_level {lo!r}")
+            raise InputError(t.file, t.key("to_level"), hi, f"a level at or above from_level {lo!r}")
         kind, carried = _read_support(t, sid)
         t.done()
         stacks.append(Stack(sid, i, x, y, orient, lo, hi, kind, carried))
@@ -143,8 +141,7 @@ def read_stacks(top: TomlTable, levels: Sequence[Level]) -> tuple[Stack, ...]:
 def _read_support(t: TomlTable, sid: str) -> tuple[SupportKind, tuple[tuple[str, float], ...]]:
     value = t.raw("stands_on")
     key = t.key("stands_on")
-    expected = ("'foundation', 'external', or a table of supporting stacks and shares "
-                "such as { P1 = 0.6, P2 = 0.4 }")
+    expected = "'foundation', 'external', or a table of supporting stacks and shares such as { P1 = 0.6, P2 = 0.4 }"
     if isinstance(value, str):
         if value in (SupportKind.FOUNDATION.value, SupportKind.EXTERNAL.value):
             return SupportKind(value), ()
@@ -165,7 +162,7 @@ def _read_support(t: TomlTable, sid: str) -> tuple[SupportKind, tuple[tuple[str,
     return SupportKind.TRANSFER, tuple(carried)
 
 
-def check_stack_supports(file: str, stacks: Sequence[Stack], levels: Sequence[Level]) -> None:
+def check_stack_supports(file: str, stacks: Sequence[Stack], levels: Sequence[Level]) -> None:  # noqa: PLR0912 - validates one input table, one branch per support rule
     """Unknown supports, support cycles, missing support cells, overlapping stacks."""
     by_id = {s.id: s for s in stacks}
     index = {lv.name: lv.index for lv in levels}
@@ -183,35 +180,44 @@ def check_stack_supports(file: str, stacks: Sequence[Stack], levels: Sequence[Le
         cycle = None
     if cycle:
         names = " -> ".join([a for a, _ in cycle] + [cycle[0][0]])
-        raise InputError(file, "stacks.stands_on", names,
-                         "stacks that do not carry each other in a cycle")
+        raise InputError(file, "stacks.stands_on", names, "stacks that do not carry each other in a cycle")
     for s in stacks:
         if s.support is not SupportKind.TRANSFER:
             continue
         lo = index[s.from_level]
         key = f"stacks[{s.index}].stands_on"
         if lo == 0:
-            raise InputError(file, key, dict(s.carried_by),
-                             f"'foundation' or 'external': stack {s.id!r} starts at the lowest "
-                             f"level {s.from_level!r}, so no stack can be below it")
+            raise InputError(
+                file,
+                key,
+                dict(s.carried_by),
+                f"'foundation' or 'external': stack {s.id!r} starts at the lowest "
+                f"level {s.from_level!r}, so no stack can be below it",
+            )
         below = levels[lo - 1].name
         for other, _ in s.carried_by:
             o = by_id[other]
             if not index[o.from_level] <= lo - 1 <= index[o.to_level]:
                 raise InputError(
-                    file, f"{key}.{other}", other,
+                    file,
+                    f"{key}.{other}",
+                    other,
                     f"a stack that runs through level {below!r} (the level below "
                     f"{s.id!r}'s lowest level {s.from_level!r}); {other!r} runs "
-                    f"{o.from_level}..{o.to_level}")
+                    f"{o.from_level}..{o.to_level}",
+                )
     for i, a in enumerate(stacks):
-        for b in stacks[i + 1:]:
+        for b in stacks[i + 1 :]:
             if math.hypot(a.x_m - b.x_m, a.y_m - b.y_m) > POSITION_TOLERANCE_M:
                 continue
             if index[a.from_level] <= index[b.to_level] and index[b.from_level] <= index[a.to_level]:
                 raise InputError(
-                    file, f"stacks[{b.index}].x_m/y_m", (b.x_m, b.y_m),
+                    file,
+                    f"stacks[{b.index}].x_m/y_m",
+                    (b.x_m, b.y_m),
                     f"a position not shared with stack {a.id!r} over common levels "
-                    f"(stacks closer than {POSITION_TOLERANCE_M * 1000:g} mm overlap)")
+                    f"(stacks closer than {POSITION_TOLERANCE_M * 1000:g} mm overlap)",
+                )
 
 
 def read_floors(top: TomlTable, levels: Sequence[Level]) -> tuple[tuple[Floor, ...], tuple[LevelFloor, ...]]:
@@ -232,11 +238,13 @@ def read_floors(top: TomlTable, levels: Sequence[Level]) -> tuple[tuple[Floor, .
             for j, h in enumerate(holes_raw):
                 pts = _points(t.file, f"{t.key('holes_m')}[{j}]", h)
                 if not Polygon(outline).contains(Polygon(pts)):
-                    raise InputError(t.file, f"{t.key('holes_m')}[{j}]", h,
-                                     "a hole lying inside the outline")
+                    raise InputError(t.file, f"{t.key('holes_m')}[{j}]", h, "a hole lying inside the outline")
                 holes.append(pts)
         floor = Floor(
-            index=i, levels=rng, outline_m=outline, holes_m=tuple(holes),
+            index=i,
+            levels=rng,
+            outline_m=outline,
+            holes_m=tuple(holes),
             sdl_kPa=t.num("sdl_kPa", minimum=0.0, maximum=1e4),
             imposed_kPa=t.num("imposed_kPa", minimum=0.0, maximum=1e4),
             facade_kN_m=t.num("facade_kN_m", minimum=0.0, maximum=1e5),
@@ -249,23 +257,26 @@ def read_floors(top: TomlTable, levels: Sequence[Level]) -> tuple[tuple[Floor, .
         floors.append(floor)
         for name in rng:
             if name in owner:
-                raise InputError(t.file, t.key("levels"), name,
-                                 f"levels not already covered by floors[{owner[name]}]")
+                raise InputError(t.file, t.key("levels"), name, f"levels not already covered by floors[{owner[name]}]")
             owner[name] = i
             lv = levels[index[name]]
             cat = floor.category or lv.category
             if cat is None:
-                raise InputError(t.file, t.key("category"), None,
-                                 f"a category of use for level {name!r} (on the floor or the level)")
+                raise InputError(
+                    t.file, t.key("category"), None, f"a category of use for level {name!r} (on the floor or the level)"
+                )
             if floor.category and lv.category and floor.category != lv.category:
-                raise InputError(t.file, t.key("category"), floor.category.value,
-                                 f"the category of level {name!r} ({lv.category.value}) "
-                                 "or no category on one of the two")
+                raise InputError(
+                    t.file,
+                    t.key("category"),
+                    floor.category.value,
+                    f"the category of level {name!r} ({lv.category.value}) or no category on one of the two",
+                )
             p0 = floor.psi0 if floor.psi0 is not None else PSI_FACTORS[cat].psi0
             level_floors[name] = LevelFloor(name, floor, cat, p0)
     missing = [n for n in names if n not in owner]
     if missing:
-        raise InputError(top.file, "floors", missing[0],
-                         "a floor plate for every level (floors[].levels does not cover it)")
+        raise InputError(
+            top.file, "floors", missing[0], "a floor plate for every level (floors[].levels does not cover it)"
+        )
     return tuple(floors), tuple(level_floors[n] for n in names)
-

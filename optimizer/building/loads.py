@@ -132,9 +132,7 @@ def alpha_A(area_m2: float, psi_0: float, category: Category = Category.A) -> fl
     return value
 
 
-def combination_factors(
-    params: NationalParameters, combination: Combination
-) -> dict[str, tuple[float, float, bool]]:
+def combination_factors(params: NationalParameters, combination: Combination) -> dict[str, tuple[float, float, bool]]:
     """Factors (on Gk, on Qk, psi0 applied) for each expression of a combination.
 
     EN 1990, Eq. (6.10): gamma_G Gk + gamma_Q Qk
@@ -149,11 +147,7 @@ def combination_factors(
 
 
 def combine(
-    Gk_kN: float,
-    Qk_reduced_kN: float,
-    psi0_Qk_kN: float,
-    params: NationalParameters,
-    combination: Combination,
+    Gk_kN: float, Qk_reduced_kN: float, psi0_Qk_kN: float, params: NationalParameters, combination: Combination
 ) -> tuple[float, str]:
     """Design value and the governing expression for one column cell.
 

@@ -60,14 +60,41 @@ __all__ = [
 RESERVED_TABLES = ("catalogue", "rules", "costs", "optimizer")
 # The keys a scenario file may have at its top level.
 TOP_LEVEL_KEYS = (
-    "project", "parameters", "materials", "levels", "stacks", "floors",
-    "settings", "takedown", "actions", "creep", *RESERVED_TABLES,
+    "project",
+    "parameters",
+    "materials",
+    "levels",
+    "stacks",
+    "floors",
+    "settings",
+    "takedown",
+    "actions",
+    "creep",
+    *RESERVED_TABLES,
 )
 
 # Exposure classes of EN 1992-1-1, Table 4.1.
 EXPOSURE_CLASSES = frozenset(
-    ["X0", "XC1", "XC2", "XC3", "XC4", "XD1", "XD2", "XD3", "XS1", "XS2", "XS3",
-     "XF1", "XF2", "XF3", "XF4", "XA1", "XA2", "XA3"]
+    [
+        "X0",
+        "XC1",
+        "XC2",
+        "XC3",
+        "XC4",
+        "XD1",
+        "XD2",
+        "XD3",
+        "XS1",
+        "XS2",
+        "XS3",
+        "XF1",
+        "XF2",
+        "XF3",
+        "XF4",
+        "XA1",
+        "XA2",
+        "XA3",
+    ]
 )
 # Standard fire resistance periods of EN 1992-1-2 tables for columns ("none": no requirement).
 FIRE_RESISTANCES = ("none", "R30", "R60", "R90", "R120", "R180", "R240")
@@ -355,4 +382,3 @@ class Scenario:
         st = self.stack(stack_id)
         lo, hi = self.level(st.from_level).index, self.level(st.to_level).index
         return tuple(lv.name for lv in self.levels[lo : hi + 1])
-

@@ -29,8 +29,16 @@ import pandas as pd
 from design.params import NationalParameters
 from optimizer.building.model import Scenario
 
-__all__ = ["plausibility_warnings", "LIMITS", "SectionCapacity", "spec_length_problem", "spec_side_problem",
-           "spec_force_problem", "spec_moment_problem", "spec_warnings"]
+__all__ = [
+    "plausibility_warnings",
+    "LIMITS",
+    "SectionCapacity",
+    "spec_length_problem",
+    "spec_side_problem",
+    "spec_force_problem",
+    "spec_moment_problem",
+    "spec_warnings",
+]
 
 # Thresholds (documented units on the left; what a unit slip would give on the right).
 LIMITS = {
@@ -94,54 +102,78 @@ def _whole(x: float) -> str:
     return f"{x:,.0f}" if abs(x) >= 1e4 and float(x).is_integer() else _fmt(x)
 
 
-def _scenario_warnings(scenario: Scenario) -> Iterable[str]:
+def _scenario_warnings(scenario: Scenario) -> Iterable[str]:  # noqa: PLR0912 - one plausibility rule per branch
     src = scenario.source
     lim = LIMITS
     for lv in scenario.levels:
         key = f"levels[{lv.index}]"
         if lv.height_m > lim["height_m_max"]:
-            yield (f"{src}: {key}.height_m = {_fmt(lv.height_m)} (level {lv.name}): a storey over "
-                   f"{lim['height_m_max']:g} m high; was it given in mm instead of m?")
+            yield (
+                f"{src}: {key}.height_m = {_fmt(lv.height_m)} (level {lv.name}): a storey over "
+                f"{lim['height_m_max']:g} m high; was it given in mm instead of m?"
+            )
         elif lv.height_m < lim["height_m_min"]:
-            yield (f"{src}: {key}.height_m = {_fmt(lv.height_m)} (level {lv.name}): a storey under "
-                   f"{lim['height_m_min']:g} m high; is the unit m?")
+            yield (
+                f"{src}: {key}.height_m = {_fmt(lv.height_m)} (level {lv.name}): a storey under "
+                f"{lim['height_m_min']:g} m high; is the unit m?"
+            )
         if 0 < lv.slab_depth_mm < lim["slab_depth_mm_min"]:
-            yield (f"{src}: {key}.slab_depth_mm = {_fmt(lv.slab_depth_mm)} (level {lv.name}): a slab under "
-                   f"{lim['slab_depth_mm_min']:g} mm deep; was it given in m instead of mm?")
+            yield (
+                f"{src}: {key}.slab_depth_mm = {_fmt(lv.slab_depth_mm)} (level {lv.name}): a slab under "
+                f"{lim['slab_depth_mm_min']:g} mm deep; was it given in m instead of mm?"
+            )
         if lv.slab_depth_mm / 1000.0 >= lv.height_m:
-            yield (f"{src}: {key}.slab_depth_mm = {_fmt(lv.slab_depth_mm)} (level {lv.name}): the slab is as "
-                   f"deep as the storey is high ({_fmt(lv.height_m)} m); check the units")
+            yield (
+                f"{src}: {key}.slab_depth_mm = {_fmt(lv.slab_depth_mm)} (level {lv.name}): the slab is as "
+                f"deep as the storey is high ({_fmt(lv.height_m)} m); check the units"
+            )
         elif lv.slab_depth_mm > lim["slab_depth_mm_max"]:
-            yield (f"{src}: {key}.slab_depth_mm = {_fmt(lv.slab_depth_mm)} (level {lv.name}): a slab over "
-                   f"{lim['slab_depth_mm_max']:g} mm deep; check the units")
+            yield (
+                f"{src}: {key}.slab_depth_mm = {_fmt(lv.slab_depth_mm)} (level {lv.name}): a slab over "
+                f"{lim['slab_depth_mm_max']:g} mm deep; check the units"
+            )
     for fl in scenario.floors:
         key = f"floors[{fl.index}]"
         for name, value in (("sdl_kPa", fl.sdl_kPa), ("imposed_kPa", fl.imposed_kPa)):
             if value > lim["area_load_kPa_max"]:
-                yield (f"{src}: {key}.{name} = {_fmt(value)}: an area load over {lim['area_load_kPa_max']:g} "
-                       "kPa; was it given in Pa (N/m2) instead of kPa?")
+                yield (
+                    f"{src}: {key}.{name} = {_fmt(value)}: an area load over {lim['area_load_kPa_max']:g} "
+                    "kPa; was it given in Pa (N/m2) instead of kPa?"
+                )
         if fl.facade_kN_m > lim["line_load_kN_m_max"]:
-            yield (f"{src}: {key}.facade_kN_m = {_fmt(fl.facade_kN_m)}: a facade line load over "
-                   f"{lim['line_load_kN_m_max']:g} kN/m; was it given in N/m instead of kN/m?")
+            yield (
+                f"{src}: {key}.facade_kN_m = {_fmt(fl.facade_kN_m)}: a facade line load over "
+                f"{lim['line_load_kN_m_max']:g} kN/m; was it given in N/m instead of kN/m?"
+            )
         far = [c for pt in fl.outline_m for c in pt if abs(c) > lim["coordinate_m_max"]]
         if far:
-            yield (f"{src}: {key}.outline_m has a coordinate {_fmt(far[0])}: beyond "
-                   f"{lim['coordinate_m_max']:g} m; were the points given in mm instead of m?")
+            yield (
+                f"{src}: {key}.outline_m has a coordinate {_fmt(far[0])}: beyond "
+                f"{lim['coordinate_m_max']:g} m; were the points given in mm instead of m?"
+            )
     for s in scenario.stacks:
         for name, value in (("x_m", s.x_m), ("y_m", s.y_m)):
             if abs(value) > lim["coordinate_m_max"]:
-                yield (f"{src}: stacks[{s.index}].{name} = {_fmt(value)} (stack {s.id}): beyond "
-                       f"{lim['coordinate_m_max']:g} m; was it given in mm instead of m?")
+                yield (
+                    f"{src}: stacks[{s.index}].{name} = {_fmt(value)} (stack {s.id}): beyond "
+                    f"{lim['coordinate_m_max']:g} m; was it given in mm instead of m?"
+                )
     m = scenario.materials
     if m.concrete_density_kN_m3 > lim["density_kN_m3_max"]:
-        yield (f"{src}: materials.concrete_density_kN_m3 = {_fmt(m.concrete_density_kN_m3)}: over "
-               f"{lim['density_kN_m3_max']:g} kN/m3; was a mass density in kg/m3 given (25 kN/m3 ~ 2,500 kg/m3)?")
+        yield (
+            f"{src}: materials.concrete_density_kN_m3 = {_fmt(m.concrete_density_kN_m3)}: over "
+            f"{lim['density_kN_m3_max']:g} kN/m3; was a mass density in kg/m3 given (25 kN/m3 ~ 2,500 kg/m3)?"
+        )
     elif m.concrete_density_kN_m3 < lim["density_kN_m3_min"]:
-        yield (f"{src}: materials.concrete_density_kN_m3 = {_fmt(m.concrete_density_kN_m3)}: under "
-               f"{lim['density_kN_m3_min']:g} kN/m3; was it given in t/m3 instead of kN/m3?")
+        yield (
+            f"{src}: materials.concrete_density_kN_m3 = {_fmt(m.concrete_density_kN_m3)}: under "
+            f"{lim['density_kN_m3_min']:g} kN/m3; was it given in t/m3 instead of kN/m3?"
+        )
     if m.aggregate_mm > lim["aggregate_mm_max"]:
-        yield (f"{src}: materials.aggregate_mm = {_fmt(m.aggregate_mm)}: an aggregate over "
-               f"{lim['aggregate_mm_max']:g} mm; check the units")
+        yield (
+            f"{src}: materials.aggregate_mm = {_fmt(m.aggregate_mm)}: an aggregate over "
+            f"{lim['aggregate_mm_max']:g} mm; check the units"
+        )
     seen: set[tuple[float, float]] = set()
     for c in scenario.cells:
         b, h = c.settings.trial_b_mm, c.settings.trial_h_mm
@@ -150,9 +182,11 @@ def _scenario_warnings(scenario: Scenario) -> Iterable[str]:
         seen.add((b, h))
         for v in (b, h):
             if v < lim["size_mm_min"] or v > lim["size_mm_max"]:
-                yield (f"{src}: settings.trial_size_mm = [{_fmt(b)}, {_fmt(h)}] (first at cell {c.stack}, "
-                       f"{c.level}): a side of {_fmt(v)} mm is outside {lim['size_mm_min']:g}..."
-                       f"{lim['size_mm_max']:g} mm; was it given in m or cm instead of mm?")
+                yield (
+                    f"{src}: settings.trial_size_mm = [{_fmt(b)}, {_fmt(h)}] (first at cell {c.stack}, "
+                    f"{c.level}): a side of {_fmt(v)} mm is outside {lim['size_mm_min']:g}..."
+                    f"{lim['size_mm_max']:g} mm; was it given in m or cm instead of mm?"
+                )
                 break
 
 
@@ -166,7 +200,7 @@ def _num(row: Mapping[str, object], col: str) -> float | None:
     return x if math.isfinite(x) else None
 
 
-def _actions_warnings(scenario: Scenario, actions: pd.DataFrame, params: NationalParameters) -> Iterable[str]:
+def _actions_warnings(scenario: Scenario, actions: pd.DataFrame, params: NationalParameters) -> Iterable[str]:  # noqa: PLR0912 - one plausibility rule per branch
     src = scenario.actions_file or f"{scenario.source} (takedown actions)"
     lim = LIMITS
     fyd = scenario.materials.fyk_MPa / params.gamma_s
@@ -183,35 +217,45 @@ def _actions_warnings(scenario: Scenario, actions: pd.DataFrame, params: Nationa
             if b and h:
                 stress = n * 1e3 / (b * h)
                 if stress > lim["stress_over_fck_max"] * fck:
-                    yield (f"{src}: {where}: NEd_kN = {_fmt(n)}: the axial stress on the trial section "
-                           f"{_fmt(b)} x {_fmt(h)} mm is {stress:.1f} MPa, over {lim['stress_over_fck_max']:g} "
-                           f"x fck = {fck:g} MPa; "
-                           "was NEd given in N instead of kN, or the trial size too small?")
+                    yield (
+                        f"{src}: {where}: NEd_kN = {_fmt(n)}: the axial stress on the trial section "
+                        f"{_fmt(b)} x {_fmt(h)} mm is {stress:.1f} MPa, over {lim['stress_over_fck_max']:g} "
+                        f"x fck = {fck:g} MPa; "
+                        "was NEd given in N instead of kN, or the trial size too small?"
+                    )
             fcd = params.alpha_cc * fck / params.gamma_c
             area = n * 1e3 / (fcd + params.rho_max * fyd)
             side = math.sqrt(area)
             if side > lim["column_side_mm_max"]:
-                yield (f"{src}: {where}: NEd_kN = {_fmt(n)}: even at the maximum steel ratio this needs a "
-                       f"column about {side / 1000:.1f} m square; was NEd given in N instead of kN?")
+                yield (
+                    f"{src}: {where}: NEd_kN = {_fmt(n)}: even at the maximum steel ratio this needs a "
+                    f"column about {side / 1000:.1f} m square; was NEd given in N instead of kN?"
+                )
         for col in ("My_top_kNm", "My_bot_kNm", "Mz_top_kNm", "Mz_bot_kNm"):
             m = _num(r, col)
             if m is None or abs(m) < lim["moment_kNm_min_for_units"]:
                 continue
             e = abs(m) / max(n or 0.0, 1.0)
             if e > lim["eccentricity_m_max"]:
-                yield (f"{src}: {where}: {col} = {_fmt(m)}: an eccentricity M/N of {e:.3g} m; was the moment "
-                       "given in N·mm or Nm instead of kNm?")
+                yield (
+                    f"{src}: {where}: {col} = {_fmt(m)}: an eccentricity M/N of {e:.3g} m; was the moment "
+                    "given in N·mm or Nm instead of kNm?"
+                )
         storey_mm = cell.height_m * 1000.0
         for col in ("l0y_mm", "l0z_mm"):
             v = _num(r, col)
             if v is None:
                 continue
             if v < lim["l0_mm_min"]:
-                yield (f"{src}: {where}: {col} = {_fmt(v)}: an effective length under {lim['l0_mm_min']:g} mm; "
-                       "was it given in m instead of mm?")
+                yield (
+                    f"{src}: {where}: {col} = {_fmt(v)}: an effective length under {lim['l0_mm_min']:g} mm; "
+                    "was it given in m instead of mm?"
+                )
             elif v > lim["l0_over_storey_max"] * storey_mm:
-                yield (f"{src}: {where}: {col} = {_fmt(v)}: over {lim['l0_over_storey_max']:g} times the storey "
-                       f"height ({storey_mm:.0f} mm); check the units")
+                yield (
+                    f"{src}: {where}: {col} = {_fmt(v)}: over {lim['l0_over_storey_max']:g} times the storey "
+                    f"height ({storey_mm:.0f} mm); check the units"
+                )
 
 
 # ---------------------------------------------------------------------------------------------- single column
@@ -246,10 +290,7 @@ def _suggest(value: float, low: float, high: float, factors: tuple[tuple[float, 
 
 _TOO_SMALL = ((1000.0, ""), (10.0, ""))  # metres, then centimetres, typed for mm
 
-_LENGTH_WHAT = {
-    "height": ("a clear height", "a storey"),
-    "l0": ("an effective length", "a column length"),
-}
+_LENGTH_WHAT = {"height": ("a clear height", "a storey"), "l0": ("an effective length", "a column length")}
 
 
 def spec_length_problem(value_mm: float, what: str = "l0") -> str | None:
@@ -299,8 +340,10 @@ def spec_force_problem(NEd_kN: float, cap: SectionCapacity) -> str | None:
         return None
     what = "the squash load Ac fcd + As fyd" if NEd_kN >= 0 else "the tension resistance As fyd"
     hint = _suggest(NEd_kN, 0.0, k * limit, ((1e-3, "N typed for kN"),))
-    return (f"a force in kN is expected ({_whole(NEd_kN)} kN is {abs(NEd_kN) / limit:,.0f} times {what} = "
-            f"{limit:,.0f} kN of this section{hint})")
+    return (
+        f"a force in kN is expected ({_whole(NEd_kN)} kN is {abs(NEd_kN) / limit:,.0f} times {what} = "
+        f"{limit:,.0f} kN of this section{hint})"
+    )
 
 
 def spec_moment_problem(M_kNm: float, NEd_kN: float, cap: SectionCapacity) -> str | None:
@@ -315,13 +358,19 @@ def spec_moment_problem(M_kNm: float, NEd_kN: float, cap: SectionCapacity) -> st
         return None
     hint = _suggest(M_kNm, 0.0, bound, ((1e-3, "Nm typed for kNm"), (1e-6, "N mm typed for kNm")))
     ecc_text = f"an eccentricity M/NEd of {ecc:,.0f} m, " if math.isfinite(ecc) else ""
-    return (f"a moment in kNm is expected ({_whole(M_kNm)} kNm is {ecc_text}{m / bound:,.0f} times "
-            f"(Ac fcd + As fyd) h/2 = {bound:,.0f} kNm, more than any strain state of this section resists{hint})")
+    return (
+        f"a moment in kNm is expected ({_whole(M_kNm)} kNm is {ecc_text}{m / bound:,.0f} times "
+        f"(Ac fcd + As fyd) h/2 = {bound:,.0f} kNm, more than any strain state of this section resists{hint})"
+    )
 
 
-def spec_warnings(file: str, NEd_kN: float | None, cap: SectionCapacity,
-                  moments_kNm: Mapping[str, float] | None = None,
-                  lengths_mm: Mapping[str, tuple[float, str]] | None = None) -> list[str]:
+def spec_warnings(
+    file: str,
+    NEd_kN: float | None,
+    cap: SectionCapacity,
+    moments_kNm: Mapping[str, float] | None = None,
+    lengths_mm: Mapping[str, tuple[float, str]] | None = None,
+) -> list[str]:
     """Warnings for values of a single-column specification that are possible but unusual.
 
     Args:
@@ -338,28 +387,37 @@ def spec_warnings(file: str, NEd_kN: float | None, cap: SectionCapacity,
     out: list[str] = []
     if NEd_kN is not None:
         if NEd_kN > lim["spec_force_over_squash_warn"] * cap.squash_kN:
-            out.append(f"{file}: NEd = {_fmt(NEd_kN)}: above the squash load Ac fcd + As fyd = "
-                       f"{cap.squash_kN:,.0f} kN of this section, which cannot carry it; is NEd in kN?")
+            out.append(
+                f"{file}: NEd = {_fmt(NEd_kN)}: above the squash load Ac fcd + As fyd = "
+                f"{cap.squash_kN:,.0f} kN of this section, which cannot carry it; is NEd in kN?"
+            )
         elif 0 < NEd_kN < lim["spec_force_under_squash_warn"] * cap.squash_kN:
-            out.append(f"{file}: NEd = {_fmt(NEd_kN)}: under {100 * lim['spec_force_under_squash_warn']:g} % of "
-                       f"the squash load ({cap.squash_kN:,.0f} kN); was it given in MN instead of kN?")
+            out.append(
+                f"{file}: NEd = {_fmt(NEd_kN)}: under {100 * lim['spec_force_under_squash_warn']:g} % of "
+                f"the squash load ({cap.squash_kN:,.0f} kN); was it given in MN instead of kN?"
+            )
     for key, m in (moments_kNm or {}).items():
         if abs(m) > lim["spec_moment_over_bound_warn"] * cap.moment_bound_kNm:
-            out.append(f"{file}: {key} = {_fmt(m)}: above (Ac fcd + As fyd) h/2 = {cap.moment_bound_kNm:,.0f} "
-                       "kNm, more than any strain state of this section resists; is the moment in kNm?")
+            out.append(
+                f"{file}: {key} = {_fmt(m)}: above (Ac fcd + As fyd) h/2 = {cap.moment_bound_kNm:,.0f} "
+                "kNm, more than any strain state of this section resists; is the moment in kNm?"
+            )
     for key, (l0, axis) in (lengths_mm or {}).items():
         depth = cap.h_y_mm if axis == "y" else cap.h_z_mm
         ratio = l0 / depth
         if ratio > lim["spec_l0_over_side_warn"]:
             side = "h" if axis == "y" else "b"
-            out.append(f"{file}: {key} = {_fmt(l0)}: {key}/{side} = {ratio:.0f}, over "
-                       f"{lim['spec_l0_over_side_warn']:g}, slenderer than any column in practice; "
-                       f"are {key} and the section in mm?")
+            out.append(
+                f"{file}: {key} = {_fmt(l0)}: {key}/{side} = {ratio:.0f}, over "
+                f"{lim['spec_l0_over_side_warn']:g}, slenderer than any column in practice; "
+                f"are {key} and the section in mm?"
+            )
     return out
 
 
-def plausibility_warnings(scenario: Scenario, actions_df: pd.DataFrame | None,
-                          params: NationalParameters | None = None) -> list[str]:
+def plausibility_warnings(
+    scenario: Scenario, actions_df: pd.DataFrame | None, params: NationalParameters | None = None
+) -> list[str]:
     """Warnings for values that look like unit mistakes (empty when all is plausible).
 
     Args:

@@ -55,16 +55,11 @@ from optimizer.building.model import (
 from optimizer.building.tables import MISSING, TomlTable, number
 from optimizer.errors import InputError, did_you_mean
 
-__all__ = [
-    "load_scenario",
-    "load_scenario_text",
-    "exposure_value",
-    "fire_value",
-    "fire_requirement",
-]
+__all__ = ["load_scenario", "load_scenario_text", "exposure_value", "fire_value", "fire_requirement"]
 
 
 # --------------------------------------------------------------------------- sections
+
 
 def _read_project(top: TomlTable) -> Project:
     t = top.table("project")
@@ -74,8 +69,7 @@ def _read_project(top: TomlTable) -> Project:
     return Project(name=name, description=description)
 
 
-def _read_parameters(top: TomlTable) -> tuple[ParameterSet, tuple[tuple[str, float], ...],
-                                           NationalParameters]:
+def _read_parameters(top: TomlTable) -> tuple[ParameterSet, tuple[tuple[str, float], ...], NationalParameters]:
     t = top.table("parameters")
     pset = t.choice("set", ParameterSet)
     overrides: dict[str, float] = {}
@@ -124,8 +118,21 @@ def _read_materials(top: TomlTable, levels: Sequence[Level], stack_ids: Sequence
     return Materials(concrete, fck, fyk, ductility, agg, density, tuple(zones))
 
 
-_SETTING_KEYS = ("levels", "stacks", "exposure", "fire", "braced", "l0_factor", "l0y_factor",
-                 "l0z_factor", "k1y", "k2y", "k1z", "k2z", "trial_size_mm")
+_SETTING_KEYS = (
+    "levels",
+    "stacks",
+    "exposure",
+    "fire",
+    "braced",
+    "l0_factor",
+    "l0y_factor",
+    "l0z_factor",
+    "k1y",
+    "k2y",
+    "k1z",
+    "k2z",
+    "trial_size_mm",
+)
 
 
 @dataclass(frozen=True)
@@ -142,8 +149,13 @@ def exposure_value(file: str, key: str, value: object) -> str:
     parts = [p.strip().upper() for p in value.split("+")]
     for p in parts:
         if p not in EXPOSURE_CLASSES:
-            raise InputError(file, key, value, "exposure classes of EN 1992-1-1 Table 4.1, "
-                             f"joined by '+' (e.g. 'XC3+XF1'){did_you_mean(p, EXPOSURE_CLASSES)}")
+            raise InputError(
+                file,
+                key,
+                value,
+                "exposure classes of EN 1992-1-1 Table 4.1, "
+                f"joined by '+' (e.g. 'XC3+XF1'){did_you_mean(p, EXPOSURE_CLASSES)}",
+            )
     return "+".join(parts)
 
 
@@ -155,8 +167,9 @@ def fire_requirement(value: str | None) -> str | None:
 def fire_value(file: str, key: str, value: object) -> str:
     """A standard fire resistance period of :data:`FIRE_RESISTANCES` ('none' included)."""
     if value not in FIRE_RESISTANCES:
-        raise InputError(file, key, value, f"one of {', '.join(FIRE_RESISTANCES)}"
-                         f"{did_you_mean(str(value), FIRE_RESISTANCES)}")
+        raise InputError(
+            file, key, value, f"one of {', '.join(FIRE_RESISTANCES)}{did_you_mean(str(value), FIRE_RESISTANCES)}"
+        )
     return str(value)
 
 
@@ -167,9 +180,12 @@ def _read_settings(top: TomlTable, levels: Sequence[Level], stack_ids: Sequence[
     for t in top.array_of_tables("settings", required=False):
         for k in t.data:
             if k not in _SETTING_KEYS:
-                raise InputError(t.file, t.key(k), t.data[k],
-                                 f"unknown key{did_you_mean(k, _SETTING_KEYS)} "
-                                 f"(known keys here: {', '.join(_SETTING_KEYS)})")
+                raise InputError(
+                    t.file,
+                    t.key(k),
+                    t.data[k],
+                    f"unknown key{did_you_mean(k, _SETTING_KEYS)} (known keys here: {', '.join(_SETTING_KEYS)})",
+                )
         lv = t.raw("levels", required=False)
         st = t.raw("stacks", required=False)
         sel_levels = None if lv is MISSING else level_range(t.file, t.key("levels"), lv, index, names)
@@ -182,9 +198,12 @@ def _read_settings(top: TomlTable, levels: Sequence[Level], stack_ids: Sequence[
         if "braced" in t.data:
             braced = t.bool_("braced")
             if not braced:
-                raise InputError(t.file, t.key("braced"), braced,
-                                 "true: only braced columns are supported; the cores are "
-                                 "assumed to provide the lateral stability")
+                raise InputError(
+                    t.file,
+                    t.key("braced"),
+                    braced,
+                    "true: only braced columns are supported; the cores are assumed to provide the lateral stability",
+                )
             values["braced"] = True
         values.update(_read_effective_length(t))
         if "trial_size_mm" in t.data:
@@ -205,8 +224,12 @@ def _read_effective_length(t: TomlTable) -> dict[str, EffectiveLength]:
     if not f_keys and not k_keys:
         return {}
     if f_keys and k_keys:
-        raise InputError(t.file, t.key(k_keys[0]), t.data[k_keys[0]],
-                         f"either l0 factors or k1/k2 in one entry, not both (also has {f_keys[0]})")
+        raise InputError(
+            t.file,
+            t.key(k_keys[0]),
+            t.data[k_keys[0]],
+            f"either l0 factors or k1/k2 in one entry, not both (also has {f_keys[0]})",
+        )
     if k_keys:
         if len(k_keys) != 4:
             missing = [k for k in ("k1y", "k2y", "k1z", "k2z") if k not in k_keys]
@@ -215,8 +238,9 @@ def _read_effective_length(t: TomlTable) -> dict[str, EffectiveLength]:
         return {"effective_length": EffectiveLength(**ks)}
     f = {k: t.num(k, minimum=0.5, maximum=1.0) for k in f_keys}
     if "l0_factor" in f and len(f) > 1:
-        raise InputError(t.file, t.key("l0_factor"), f["l0_factor"],
-                         "l0_factor alone, or l0y_factor and l0z_factor without it")
+        raise InputError(
+            t.file, t.key("l0_factor"), f["l0_factor"], "l0_factor alone, or l0y_factor and l0z_factor without it"
+        )
     fy = f.get("l0y_factor", f.get("l0_factor"))
     fz = f.get("l0z_factor", f.get("l0_factor"))
     if fy is None or fz is None:
@@ -235,32 +259,37 @@ def _read_creep(top: TomlTable) -> tuple[CreepSettings, bool]:
     t0 = t.num("age_at_loading_days", required=False, positive=True, maximum=3650.0)
     cement = t.choice("cement_class", CementClass, required=False)
     t.done()
-    return CreepSettings(RH_percent=d.RH_percent if rh is None else rh, t0_days=d.t0_days if t0 is None else t0,
-                         cement=d.cement if cement is None else cement), True
+    return CreepSettings(
+        RH_percent=d.RH_percent if rh is None else rh,
+        t0_days=d.t0_days if t0 is None else t0,
+        cement=d.cement if cement is None else cement,
+    ), True
 
 
 def _read_takedown(top: TomlTable) -> TakedownOptions | None:
     t = top.table("takedown", required=False)
     if t is None:
         return None
-    opts = TakedownOptions(t.choice("combination", Combination),
-                           t.choice("imposed_reduction", ImposedReduction))
+    opts = TakedownOptions(t.choice("combination", Combination), t.choice("imposed_reduction", ImposedReduction))
     t.done()
     return opts
 
 
-def _resolve_cells(file: str, levels: Sequence[Level], stacks: Sequence[Stack],
-                   materials: Materials, rules: Sequence[_Rule],
-                   takedown_route: bool) -> tuple[Cell, ...]:
+def _resolve_cells(
+    file: str,
+    levels: Sequence[Level],
+    stacks: Sequence[Stack],
+    materials: Materials,
+    rules: Sequence[_Rule],
+    takedown_route: bool,
+) -> tuple[Cell, ...]:
     index = {lv.name: lv.index for lv in levels}
     cells: list[Cell] = []
     for st in stacks:
         for lv in levels[index[st.from_level] : index[st.to_level] + 1]:
             values: dict[str, Any] = {}
             for r in rules:
-                if (r.levels is None or lv.name in r.levels) and (
-                    r.stacks is None or st.id in r.stacks
-                ):
+                if (r.levels is None or lv.name in r.levels) and (r.stacks is None or st.id in r.stacks):
                     values.update(r.values)
             concrete, fck = materials.concrete, materials.fck_MPa
             for z in materials.zones:
@@ -270,18 +299,24 @@ def _resolve_cells(file: str, levels: Sequence[Level], stacks: Sequence[Stack],
                 for key in ("exposure", "fire", "braced", "effective_length", "trial_size_mm"):
                     if key not in values:
                         shown = "l0_factor (or k1y..k2z)" if key == "effective_length" else key
-                        raise InputError(file, f"settings.{shown}", None,
-                                         f"a value for cell ({st.id}, {lv.name}): no "
-                                         "[[settings]] entry covering it gives one")
+                        raise InputError(
+                            file,
+                            f"settings.{shown}",
+                            None,
+                            f"a value for cell ({st.id}, {lv.name}): no [[settings]] entry covering it gives one",
+                        )
             b_h = values.get("trial_size_mm", (None, None))
             settings = CellSettings(
-                concrete=concrete, fck_MPa=fck, exposure=values.get("exposure"),
-                fire=fire_requirement(values.get("fire")), braced=values.get("braced"),
+                concrete=concrete,
+                fck_MPa=fck,
+                exposure=values.get("exposure"),
+                fire=fire_requirement(values.get("fire")),
+                braced=values.get("braced"),
                 effective_length=values.get("effective_length"),
-                trial_b_mm=b_h[0], trial_h_mm=b_h[1],
+                trial_b_mm=b_h[0],
+                trial_h_mm=b_h[1],
             )
-            cells.append(Cell(CellId(st.id, lv.name), len(cells), lv.index, lv.height_m,
-                              lv.clear_height_m, settings))
+            cells.append(Cell(CellId(st.id, lv.name), len(cells), lv.index, lv.height_m, lv.clear_height_m, settings))
     return tuple(cells)
 
 
@@ -318,8 +353,7 @@ def load_scenario(path: str | Path) -> Scenario:
     return load_scenario_text(text, source=str(p), base_dir=p.parent)
 
 
-def load_scenario_text(text: str, source: str = "<scenario>",
-                       base_dir: str | Path | None = None) -> Scenario:
+def load_scenario_text(text: str, source: str = "<scenario>", base_dir: str | Path | None = None) -> Scenario:  # noqa: PLR0912, PLR0915 - reads the scenario's tables in order, one branch per route
     """Validate scenario TOML text; ``base_dir`` resolves a relative ``actions`` path."""
     try:
         data = tomllib.loads(text)
@@ -328,9 +362,12 @@ def load_scenario_text(text: str, source: str = "<scenario>",
     top = TomlTable(source, "", data)
     for key in data:
         if key not in TOP_LEVEL_KEYS:
-            raise InputError(source, key, data[key],
-                             f"a known top-level key{did_you_mean(key, TOP_LEVEL_KEYS)} "
-                             f"(known: {', '.join(TOP_LEVEL_KEYS)})")
+            raise InputError(
+                source,
+                key,
+                data[key],
+                f"a known top-level key{did_you_mean(key, TOP_LEVEL_KEYS)} (known: {', '.join(TOP_LEVEL_KEYS)})",
+            )
     project = _read_project(top)
     pset, overrides, params = _read_parameters(top)
     levels = read_levels(top)
@@ -342,14 +379,20 @@ def load_scenario_text(text: str, source: str = "<scenario>",
     actions = top.str_("actions", required=False)
     has_takedown = "takedown" in data or "floors" in data
     if actions is not None and has_takedown:
-        raise InputError(source, "actions", actions,
-                         "either actions = \"FILE.csv\" or [takedown] with [[floors]], not both")
+        raise InputError(
+            source, "actions", actions, 'either actions = "FILE.csv" or [takedown] with [[floors]], not both'
+        )
     if actions is None and not has_takedown:
         misplaced = _find_key(data, "actions")
-        hint = (f" (an 'actions' key was found under {misplaced!r}: in TOML, top-level keys "
-                "must come before the first [table] header)") if misplaced else ""
-        raise InputError(source, "takedown", None,
-                         "a [takedown] table with [[floors]], or actions = \"FILE.csv\"" + hint)
+        hint = (
+            (
+                f" (an 'actions' key was found under {misplaced!r}: in TOML, top-level keys "
+                "must come before the first [table] header)"
+            )
+            if misplaced
+            else ""
+        )
+        raise InputError(source, "takedown", None, 'a [takedown] table with [[floors]], or actions = "FILE.csv"' + hint)
     actions_file = None
     floors: tuple[Floor, ...] = ()
     level_floors: tuple[LevelFloor, ...] = ()
@@ -359,14 +402,12 @@ def load_scenario_text(text: str, source: str = "<scenario>",
         if not ap.is_absolute() and base_dir is not None:
             ap = Path(base_dir) / ap
         if not ap.is_file():
-            raise InputError(source, "actions", actions,
-                             "an existing CSV file (relative to the scenario file)")
+            raise InputError(source, "actions", actions, "an existing CSV file (relative to the scenario file)")
         actions_file = str(ap)
     else:
         takedown = _read_takedown(top)
         if takedown is None:
-            raise InputError(source, "takedown", None,
-                             "a [takedown] table (combination, imposed_reduction)")
+            raise InputError(source, "takedown", None, "a [takedown] table (combination, imposed_reduction)")
         floors, level_floors = read_floors(top, levels)
     rules = _read_settings(top, levels, stack_ids)
     creep, creep_given = _read_creep(top)
@@ -382,8 +423,20 @@ def load_scenario_text(text: str, source: str = "<scenario>",
     if empty:
         raise InputError(source, "levels", empty[0], "a level that at least one stack runs through")
     return Scenario(
-        source=source, project=project, parameter_set=pset, parameter_overrides=overrides,
-        params=params, materials=materials, levels=levels, stacks=stacks, floors=floors,
-        level_floors=level_floors, takedown=takedown, actions_file=actions_file, cells=cells,
-        reserved=MappingProxyType(reserved), creep=creep, creep_given=creep_given,
+        source=source,
+        project=project,
+        parameter_set=pset,
+        parameter_overrides=overrides,
+        params=params,
+        materials=materials,
+        levels=levels,
+        stacks=stacks,
+        floors=floors,
+        level_floors=level_floors,
+        takedown=takedown,
+        actions_file=actions_file,
+        cells=cells,
+        reserved=MappingProxyType(reserved),
+        creep=creep,
+        creep_given=creep_given,
     )

@@ -46,8 +46,9 @@ def fixed_end_moment(w_kN_m: float, span_m: float) -> float:
     return w_kN_m * span_m**2 / 12.0
 
 
-def out_of_balance_moment(w_full_kN_m: float, w_dead_kN_m: float,
-                          span1_m: float | None, span2_m: float | None) -> float:
+def out_of_balance_moment(
+    w_full_kN_m: float, w_dead_kN_m: float, span1_m: float | None, span2_m: float | None
+) -> float:
     """Out-of-balance moment at a joint with spans on one or both sides, kNm.
 
     Pattern loading, EN 1992-1-1, 5.1.3(1)P: full design load on one side,
@@ -66,8 +67,9 @@ def out_of_balance_moment(w_full_kN_m: float, w_dead_kN_m: float,
     return max(abs(m1), abs(m2))
 
 
-def distribute_to_columns(m_unbalanced_kNm: float, k_below: float, k_above: float,
-                          k_slabs: float) -> tuple[float, float]:
+def distribute_to_columns(
+    m_unbalanced_kNm: float, k_below: float, k_above: float, k_slabs: float
+) -> tuple[float, float]:
     """Share of the out-of-balance moment taken by the columns below and above, kNm.
 
     Simplified sub-frame (far ends fixed), slab stiffness halved:
@@ -81,8 +83,7 @@ def distribute_to_columns(m_unbalanced_kNm: float, k_below: float, k_above: floa
     return m_unbalanced_kNm * k_below / denom, m_unbalanced_kNm * k_above / denom
 
 
-def _section_I_m4(b_mm: float, h_mm: float, orientation: Orientation,
-                  direction: str) -> tuple[float, str]:
+def _section_I_m4(b_mm: float, h_mm: float, orientation: Orientation, direction: str) -> tuple[float, str]:
     """Column second moment of area for bending in a plan direction, and the local axis.
 
     Slab spanning along plan X bends the column in the X-vertical plane. With
@@ -96,8 +97,9 @@ def _section_I_m4(b_mm: float, h_mm: float, orientation: Orientation,
     return b * h**3 / 12.0, "y"
 
 
-def _spans(me: tuple[float, float], others: list[tuple[float, float]], direction: str,
-           floor: BaseGeometry) -> tuple[float | None, float | None]:
+def _spans(
+    me: tuple[float, float], others: list[tuple[float, float]], direction: str, floor: BaseGeometry
+) -> tuple[float | None, float | None]:
     """Distances to the nearest columns on the same grid line on each side, m."""
     axis, across = (0, 1) if direction == "X" else (1, 0)
     neg, pos = None, None
@@ -120,10 +122,9 @@ def _spans(me: tuple[float, float], others: list[tuple[float, float]], direction
     return result[0], result[1]
 
 
-def joint_moments(scenario: Scenario, tributary: Mapping[str, LevelTributary],
-                  sizes: Mapping[CellId, tuple[float, float]],
-                  ) -> tuple[dict[tuple[CellId, str, str], float],
-                             dict[tuple[CellId, str, str], float], list[str]]:
+def joint_moments(  # noqa: PLR0915 - the sub-frame at every floor and direction, in the order of docs/scenario.md
+    scenario: Scenario, tributary: Mapping[str, LevelTributary], sizes: Mapping[CellId, tuple[float, float]]
+) -> tuple[dict[tuple[CellId, str, str], float], dict[tuple[CellId, str, str], float], list[str]]:
     """Column end moments from a simplified sub-frame at every floor, kNm.
 
     For each floor and each plan direction: spans to the neighbouring columns
@@ -153,7 +154,8 @@ def joint_moments(scenario: Scenario, tributary: Mapping[str, LevelTributary],
         if key not in span_cache:
             span_cache[key] = {
                 (sid, d): _spans(p, [q for o, q in pos.items() if o != sid], d, lf.floor.polygon)
-                for sid, p in pos.items() for d in ("X", "Y")
+                for sid, p in pos.items()
+                for d in ("X", "Y")
             }
         spans = span_cache[key]
         slab_m = lv.slab_depth_mm / 1000.0
@@ -162,8 +164,7 @@ def joint_moments(scenario: Scenario, tributary: Mapping[str, LevelTributary],
         for c in cells:
             st = scenario.stack(c.stack)
             trib = tributary[lv.name].cells[c.stack]
-            above = CellId(c.stack, scenario.levels[lv.index + 1].name) \
-                if lv.index + 1 < len(scenario.levels) else None
+            above = CellId(c.stack, scenario.levels[lv.index + 1].name) if lv.index + 1 < len(scenario.levels) else None
             if above is not None and not scenario.has_cell(above):
                 above = None
             for d in ("X", "Y"):
@@ -194,8 +195,9 @@ def joint_moments(scenario: Scenario, tributary: Mapping[str, LevelTributary],
                 # EN 1992-1-1, 5.8.4(2): the same sub-frame, unfactored, pattern of psi2 q
                 # and the characteristic combination Gk + Qk (EN 1990, Eq. (6.14b)) for 7.2(2)
                 for name, w in ((QP, (g + PSI_FACTORS[lf.category].psi2 * q) * width), (CHAR, (g + q) * width)):
-                    m_below, m_above = distribute_to_columns(out_of_balance_moment(w, g * width, s1, s2),
-                                                             k_below, k_above, k_slabs)
+                    m_below, m_above = distribute_to_columns(
+                        out_of_balance_moment(w, g * width, s1, s2), k_below, k_above, k_slabs
+                    )
                     top[(c.id, name, axis)] = m_below
                     if above is not None:
                         bot[(above, name, axis)] = m_above
@@ -204,5 +206,6 @@ def joint_moments(scenario: Scenario, tributary: Mapping[str, LevelTributary],
         shown = ", ".join(no_span[:8]) + (" ..." if len(no_span) > 8 else "")
         warnings.append(
             f"{len(no_span)} cell/direction(s) have no slab span to a neighbouring column on "
-            f"their grid line and get no sub-frame moment there: {shown}")
+            f"their grid line and get no sub-frame moment there: {shown}"
+        )
     return top, bot, warnings

@@ -22,8 +22,14 @@ __all__ = ["MISSING", "TomlTable", "number"]
 MISSING = object()
 
 
-def number(file: str, key: str, value: object, minimum: float | None = None,
-           positive: bool = False, maximum: float | None = None) -> float:
+def number(
+    file: str,
+    key: str,
+    value: object,
+    minimum: float | None = None,
+    positive: bool = False,
+    maximum: float | None = None,
+) -> float:
     """A finite number within the given bounds, as a float.
 
     Args:
@@ -78,11 +84,9 @@ class TomlTable:
         self.used.add(name)
         if name not in self.data:
             if required:
-                close = difflib.get_close_matches(name, [str(k) for k in self.data], n=1,
-                                                  cutoff=0.6)
+                close = difflib.get_close_matches(name, [str(k) for k in self.data], n=1, cutoff=0.6)
                 hint = f" (found {close[0]!r}: a misspelling?)" if close else ""
-                raise InputError(self.file, self.key(name), None,
-                                 f"a required key is missing{hint}")
+                raise InputError(self.file, self.key(name), None, f"a required key is missing{hint}")
             return MISSING
         return self.data[name]
 
@@ -95,8 +99,7 @@ class TomlTable:
             raise InputError(self.file, self.key(name), value, "a non-empty string")
         return value.strip()
 
-    def choice(self, name: str, enum: type[Enum], required: bool = True,
-               default: Enum | None = None) -> Any:
+    def choice(self, name: str, enum: type[Enum], required: bool = True, default: Enum | None = None) -> Any:
         """A member of ``enum`` given by its value; ``default`` when absent and not required."""
         value = self.raw(name, required)
         if value is MISSING:
@@ -106,11 +109,18 @@ class TomlTable:
             return enum(value)
         except ValueError:
             hint = did_you_mean(str(value), options)
-            raise InputError(self.file, self.key(name), value,
-                             f"one of {', '.join(map(repr, options))}{hint}") from None
+            raise InputError(
+                self.file, self.key(name), value, f"one of {', '.join(map(repr, options))}{hint}"
+            ) from None
 
-    def num(self, name: str, required: bool = True, minimum: float | None = None,
-            positive: bool = False, maximum: float | None = None) -> float | None:
+    def num(
+        self,
+        name: str,
+        required: bool = True,
+        minimum: float | None = None,
+        positive: bool = False,
+        maximum: float | None = None,
+    ) -> float | None:
         """A number within the bounds (see :func:`number`); None when absent and not required."""
         value = self.raw(name, required)
         if value is MISSING:
@@ -139,8 +149,7 @@ class TomlTable:
         if value is MISSING:
             return []
         if not isinstance(value, list) or not value:
-            raise InputError(self.file, self.key(name), value,
-                             f"a non-empty array of tables ([[{self.key(name)}]])")
+            raise InputError(self.file, self.key(name), value, f"a non-empty array of tables ([[{self.key(name)}]])")
         return [TomlTable(self.file, f"{self.key(name)}[{i}]", v) for i, v in enumerate(value)]
 
     def done(self) -> None:
@@ -149,8 +158,11 @@ class TomlTable:
             if name not in self.used:
                 hint = did_you_mean(name, self.used)
                 if self.path and name in TOP_LEVEL_KEYS:
-                    hint += (f"; a top-level {name!r} must come before the first [table] "
-                             "header (TOML puts later keys into that table)")
+                    hint += (
+                        f"; a top-level {name!r} must come before the first [table] "
+                        "header (TOML puts later keys into that table)"
+                    )
                 known = ", ".join(sorted(self.used))
-                raise InputError(self.file, self.key(name), self.data[name],
-                                 f"unknown key{hint} (known keys here: {known})")
+                raise InputError(
+                    self.file, self.key(name), self.data[name], f"unknown key{hint} (known keys here: {known})"
+                )

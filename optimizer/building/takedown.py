@@ -51,12 +51,7 @@ from optimizer.building.subframe import CHAR, QP, joint_moments
 from optimizer.building.tributary import LevelTributary, level_tributaries
 from optimizer.errors import InputError
 
-__all__ = [
-    "TakedownResult",
-    "m0eqp_ratio",
-    "takedown",
-    "scenario_actions",
-]
+__all__ = ["TakedownResult", "m0eqp_ratio", "takedown", "scenario_actions"]
 
 ProgressFn = Callable[[str, int, int], None]
 
@@ -150,13 +145,15 @@ class TakedownResult:
     notes: tuple[str, ...]
 
 
-def _trial_sizes(scenario: Scenario, trial_sizes_mm: Mapping[Any, tuple[float, float]] | None,
-                 ) -> dict[CellId, tuple[float, float]]:
+def _trial_sizes(
+    scenario: Scenario, trial_sizes_mm: Mapping[Any, tuple[float, float]] | None
+) -> dict[CellId, tuple[float, float]]:
     sizes = {}
     for c in scenario.cells:
         if c.settings.trial_b_mm is None:
-            raise InputError(scenario.source, "settings.trial_size_mm", None,
-                             f"a trial size for cell ({c.stack}, {c.level})")
+            raise InputError(
+                scenario.source, "settings.trial_size_mm", None, f"a trial size for cell ({c.stack}, {c.level})"
+            )
         sizes[c.id] = (c.settings.trial_b_mm, c.settings.trial_h_mm)
     for key, bh in (trial_sizes_mm or {}).items():
         cid = CellId(*key)
@@ -171,9 +168,11 @@ def _trial_sizes(scenario: Scenario, trial_sizes_mm: Mapping[Any, tuple[float, f
     return sizes
 
 
-def takedown(scenario: Scenario,
-             trial_sizes_mm: Mapping[CellId | tuple[str, str], tuple[float, float]] | None = None,
-             progress: ProgressFn | None = None) -> TakedownResult:
+def takedown(
+    scenario: Scenario,
+    trial_sizes_mm: Mapping[CellId | tuple[str, str], tuple[float, float]] | None = None,
+    progress: ProgressFn | None = None,
+) -> TakedownResult:
     """Per-cell actions of a scenario from the concept-stage takedown.
 
     Args:
@@ -184,9 +183,12 @@ def takedown(scenario: Scenario,
         progress: optional callback (stage, done, total).
     """
     if scenario.takedown is None:
-        raise InputError(scenario.source, "takedown", None,
-                         "a [takedown] table: this scenario gives its actions in a CSV "
-                         "(use read_actions_csv)")
+        raise InputError(
+            scenario.source,
+            "takedown",
+            None,
+            "a [takedown] table: this scenario gives its actions in a CSV (use read_actions_csv)",
+        )
     sizes = _trial_sizes(scenario, trial_sizes_mm)
     graph = build_stack_graph(scenario)
     trib = level_tributaries(scenario, progress)
@@ -227,34 +229,38 @@ def takedown(scenario: Scenario,
     reactions = _reactions(scenario, graph, loads, detail)
     totals = _level_totals(scenario, trib, floor_rows)
     warnings.extend(_cantilever_warnings(trib))
-    return TakedownResult(actions, detail, MappingProxyType(trib), reactions, totals,
-                          tuple(warnings), _notes(scenario))
+    return TakedownResult(actions, detail, MappingProxyType(trib), reactions, totals, tuple(warnings), _notes(scenario))
 
 
 def _cantilever_warnings(trib: Mapping[str, LevelTributary]) -> list[str]:
     """One warning listing the levels with floor beyond the outer column lines."""
-    parts = [f"{lt.level} {lt.cantilever_area_m2:.1f}" for lt in trib.values()
-             if lt.cantilever_area_m2 > 0.01]
+    parts = [f"{lt.level} {lt.cantilever_area_m2:.1f}" for lt in trib.values() if lt.cantilever_area_m2 > 0.01]
     if not parts:
         return []
     shown = ", ".join(parts[:12]) + (" ..." if len(parts) > 12 else "")
-    return [f"floor area beyond the outer column lines (m2 per level: {shown}) is assigned to "
-            "the nearest columns; see cantilever_m2 in the detail table"]
+    return [
+        f"floor area beyond the outer column lines (m2 per level: {shown}) is assigned to "
+        "the nearest columns; see cantilever_m2 in the detail table"
+    ]
 
 
-def _tables(scenario: Scenario, loads: Mapping[CellId, _Load],
-            floor_rows: Mapping[CellId, dict[str, float]],
-            trib: Mapping[str, LevelTributary],
-            top: Mapping, bot: Mapping, mode: ImposedReduction,
-            ) -> tuple[pd.DataFrame, pd.DataFrame]:
+def _tables(
+    scenario: Scenario,
+    loads: Mapping[CellId, _Load],
+    floor_rows: Mapping[CellId, dict[str, float]],
+    trib: Mapping[str, LevelTributary],
+    top: Mapping,
+    bot: Mapping,
+    mode: ImposedReduction,
+) -> tuple[pd.DataFrame, pd.DataFrame]:
     rows, details = [], []
-    any_k = any(c.settings.effective_length is not None
-                and not c.settings.effective_length.uses_factors for c in scenario.cells)
+    any_k = any(
+        c.settings.effective_length is not None and not c.settings.effective_length.uses_factors for c in scenario.cells
+    )
     for c in scenario.cells:
         load = loads[c.id]
         q_red, psi_q, reduction = _reduced(load, mode)
-        NEd, expr = combine(load.G_kN, q_red, psi_q, scenario.params,
-                            scenario.takedown.combination)
+        NEd, expr = combine(load.G_kN, q_red, psi_q, scenario.params, scenario.takedown.combination)
         N_qp = load.G_kN + sum(PSI_FACTORS[cat].psi2 * v[0] for (cat, _), v in load.Q.items())
         N_char = load.G_kN + q_red
 
@@ -264,14 +270,19 @@ def _tables(scenario: Scenario, loads: Mapping[CellId, _Load],
         ratio = m0eqp_ratio(NEd, N_qp, [(ends(expr, ax), ends(QP, ax)) for ax in ("y", "z")])
         char = m0eqp_ratio(NEd, N_char, [(ends(expr, ax), ends(CHAR, ax)) for ax in ("y", "z")])
         row = {
-            "stack": c.stack, "level": c.level, "NEd_kN": NEd,
+            "stack": c.stack,
+            "level": c.level,
+            "NEd_kN": NEd,
             "My_top_kNm": top.get((c.id, expr, "y"), 0.0),
             "My_bot_kNm": bot.get((c.id, expr, "y"), 0.0),
             "Mz_top_kNm": top.get((c.id, expr, "z"), 0.0),
             "Mz_bot_kNm": bot.get((c.id, expr, "z"), 0.0),
-            "l0y_mm": c.l0y_mm, "l0z_mm": c.l0z_mm,
-            "exposure": c.settings.exposure, "fire": c.settings.fire,
-            "M0Eqp_ratio": ratio, "char_ratio": char,
+            "l0y_mm": c.l0y_mm,
+            "l0z_mm": c.l0z_mm,
+            "exposure": c.settings.exposure,
+            "fire": c.settings.fire,
+            "M0Eqp_ratio": ratio,
+            "char_ratio": char,
         }
         if any_k:
             el = c.settings.effective_length
@@ -280,24 +291,36 @@ def _tables(scenario: Scenario, loads: Mapping[CellId, _Load],
         rows.append(row)
         tc = trib[c.level].cells[c.stack]
         fr = floor_rows[c.id]
-        details.append({
-            "stack": c.stack, "level": c.level, "tributary_m2": tc.area_m2,
-            "cantilever_m2": tc.cantilever_area_m2, "facade_m": tc.facade_m,
-            "Gk_floor_kN": fr["G_floor"], "Qk_floor_kN": fr["Q_floor"],
-            "self_weight_kN": fr["self"], "Gk_kN": load.G_kN, "Qk_kN": load.Qk_kN,
-            "Qk_reduced_kN": q_red, "reduction": reduction, "expression": expr, "NEd_kN": NEd,
-            "N_qp_kN": N_qp, "M0Eqp_ratio": ratio, "N_char_kN": N_char, "char_ratio": char,
-        })
+        details.append(
+            {
+                "stack": c.stack,
+                "level": c.level,
+                "tributary_m2": tc.area_m2,
+                "cantilever_m2": tc.cantilever_area_m2,
+                "facade_m": tc.facade_m,
+                "Gk_floor_kN": fr["G_floor"],
+                "Qk_floor_kN": fr["Q_floor"],
+                "self_weight_kN": fr["self"],
+                "Gk_kN": load.G_kN,
+                "Qk_kN": load.Qk_kN,
+                "Qk_reduced_kN": q_red,
+                "reduction": reduction,
+                "expression": expr,
+                "NEd_kN": NEd,
+                "N_qp_kN": N_qp,
+                "M0Eqp_ratio": ratio,
+                "N_char_kN": N_char,
+                "char_ratio": char,
+            }
+        )
     actions = pd.DataFrame(rows)
     for col in ("l0y_mm", "l0z_mm"):
         actions[col] = actions[col].astype(float)
     return actions, pd.DataFrame(details)
 
 
-def _reactions(scenario: Scenario, graph: Any, loads: Mapping[CellId, _Load],
-               detail: pd.DataFrame) -> pd.DataFrame:
-    ned = dict(zip(zip(detail["stack"], detail["level"], strict=True), detail["NEd_kN"],
-                   strict=True))
+def _reactions(scenario: Scenario, graph: Any, loads: Mapping[CellId, _Load], detail: pd.DataFrame) -> pd.DataFrame:
+    ned = dict(zip(zip(detail["stack"], detail["level"], strict=True), detail["NEd_kN"], strict=True))
     rows = []
     for st in scenario.stacks:
         cid = CellId(st.id, st.from_level)
@@ -305,31 +328,53 @@ def _reactions(scenario: Scenario, graph: Any, loads: Mapping[CellId, _Load],
         if st.support is SupportKind.TRANSFER:
             for other, share in st.carried_by:
                 below = scenario.levels[scenario.level(st.from_level).index - 1].name
-                rows.append({"kind": "transfer", "stack": st.id, "level": st.from_level,
-                             "onto": f"{other}@{below}", "share": share,
-                             "Gk_kN": share * load.G_kN, "Qk_kN": share * load.Qk_kN,
-                             "NEd_kN": share * ned[cid]})
+                rows.append(
+                    {
+                        "kind": "transfer",
+                        "stack": st.id,
+                        "level": st.from_level,
+                        "onto": f"{other}@{below}",
+                        "share": share,
+                        "Gk_kN": share * load.G_kN,
+                        "Qk_kN": share * load.Qk_kN,
+                        "NEd_kN": share * ned[cid],
+                    }
+                )
         else:
-            rows.append({"kind": st.support.value, "stack": st.id, "level": st.from_level,
-                         "onto": st.support.value, "share": 1.0, "Gk_kN": load.G_kN,
-                         "Qk_kN": load.Qk_kN, "NEd_kN": ned[cid]})
+            rows.append(
+                {
+                    "kind": st.support.value,
+                    "stack": st.id,
+                    "level": st.from_level,
+                    "onto": st.support.value,
+                    "share": 1.0,
+                    "Gk_kN": load.G_kN,
+                    "Qk_kN": load.Qk_kN,
+                    "NEd_kN": ned[cid],
+                }
+            )
     return pd.DataFrame(rows)
 
 
-def _level_totals(scenario: Scenario, trib: Mapping[str, LevelTributary],
-                  floor_rows: Mapping[CellId, dict[str, float]]) -> pd.DataFrame:
+def _level_totals(
+    scenario: Scenario, trib: Mapping[str, LevelTributary], floor_rows: Mapping[CellId, dict[str, float]]
+) -> pd.DataFrame:
     rows = []
     for lv in scenario.levels:
         cells = scenario.cells_at(lv.name)
         lt = trib[lv.name]
-        rows.append({
-            "level": lv.name, "elevation_m": lv.floor_elevation_m,
-            "floor_area_m2": lt.floor_area_m2, "cantilever_m2": lt.cantilever_area_m2,
-            "columns": len(cells),
-            "Gk_floor_kN": sum(floor_rows[c.id]["G_floor"] for c in cells),
-            "Qk_floor_kN": sum(floor_rows[c.id]["Q_floor"] for c in cells),
-            "column_self_weight_kN": sum(floor_rows[c.id]["self"] for c in cells),
-        })
+        rows.append(
+            {
+                "level": lv.name,
+                "elevation_m": lv.floor_elevation_m,
+                "floor_area_m2": lt.floor_area_m2,
+                "cantilever_m2": lt.cantilever_area_m2,
+                "columns": len(cells),
+                "Gk_floor_kN": sum(floor_rows[c.id]["G_floor"] for c in cells),
+                "Qk_floor_kN": sum(floor_rows[c.id]["Q_floor"] for c in cells),
+                "column_self_weight_kN": sum(floor_rows[c.id]["self"] for c in cells),
+            }
+        )
     return pd.DataFrame(rows)
 
 
@@ -376,9 +421,9 @@ def _notes(scenario: Scenario) -> tuple[str, ...]:
     )
 
 
-def scenario_actions(scenario: Scenario,
-                     trial_sizes_mm: Mapping[CellId | tuple[str, str], tuple[float, float]]
-                     | None = None) -> pd.DataFrame:
+def scenario_actions(
+    scenario: Scenario, trial_sizes_mm: Mapping[CellId | tuple[str, str], tuple[float, float]] | None = None
+) -> pd.DataFrame:
     """The actions table of a scenario by whichever route it uses (CSV or takedown)."""
     if scenario.actions_file is not None:
         return read_actions_csv(scenario.actions_file, scenario)

@@ -53,8 +53,9 @@ class LevelTributary:
         return sum(c.cantilever_area_m2 for c in self.cells.values())
 
 
-def tributary_areas(floor: Polygon, outline: Polygon,
-                    columns: Mapping[str, tuple[float, float]]) -> dict[str, TributaryCell]:
+def tributary_areas(
+    floor: Polygon, outline: Polygon, columns: Mapping[str, tuple[float, float]]
+) -> dict[str, TributaryCell]:
     """Voronoi tributary cells of ``columns`` clipped to ``floor`` (outline minus holes).
 
     Args:
@@ -90,15 +91,22 @@ def tributary_areas(floor: Polygon, outline: Polygon,
         bx = clipped.bounds if not clipped.is_empty else (0.0, 0.0, 0.0, 0.0)
         cant = clipped.difference(hull).area if not hull.is_empty else clipped.area
         out[sid] = TributaryCell(
-            stack=sid, x_m=columns[sid][0], y_m=columns[sid][1], area_m2=clipped.area,
-            cantilever_area_m2=cant, facade_m=region.intersection(ring).length,
-            x_extent_m=bx[2] - bx[0], y_extent_m=bx[3] - bx[1], polygon=clipped,
+            stack=sid,
+            x_m=columns[sid][0],
+            y_m=columns[sid][1],
+            area_m2=clipped.area,
+            cantilever_area_m2=cant,
+            facade_m=region.intersection(ring).length,
+            x_extent_m=bx[2] - bx[0],
+            y_extent_m=bx[3] - bx[1],
+            polygon=clipped,
         )
     return out
 
 
-def level_tributaries(scenario: Scenario, progress: Callable[[str, int, int], None] | None = None,
-                      ) -> dict[str, LevelTributary]:
+def level_tributaries(
+    scenario: Scenario, progress: Callable[[str, int, int], None] | None = None
+) -> dict[str, LevelTributary]:
     """The tributary cells of every level of a scenario on the takedown route.
 
     Levels with the same floor plate and the same columns share one computation.
@@ -111,14 +119,11 @@ def level_tributaries(scenario: Scenario, progress: Callable[[str, int, int], No
     result = {}
     for i, lv in enumerate(scenario.levels):
         lf = scenario.floor_at(lv.name)
-        cols = {c.stack: (scenario.stack(c.stack).x_m, scenario.stack(c.stack).y_m)
-                for c in scenario.cells_at(lv.name)}
+        cols = {c.stack: (scenario.stack(c.stack).x_m, scenario.stack(c.stack).y_m) for c in scenario.cells_at(lv.name)}
         key = (lf.floor.index, tuple(cols))
         if key not in cache:
             cache[key] = tributary_areas(lf.floor.polygon, Polygon(lf.floor.outline_m), cols)
-        result[lv.name] = LevelTributary(lv.name, lf.floor.index, cache[key],
-                                         lf.floor.polygon.area)
+        result[lv.name] = LevelTributary(lv.name, lf.floor.index, cache[key], lf.floor.polygon.area)
         if progress:
             progress("tributary areas", i + 1, len(scenario.levels))
     return result
-

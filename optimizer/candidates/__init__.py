@@ -21,12 +21,7 @@ from optimizer.candidates.catalogue import (
     reject_unknown,
     type_arrays,
 )
-from optimizer.candidates.costs import (
-    DEFAULT_CARBON_CONCRETE,
-    DEFAULT_CARBON_STEEL,
-    CostFactors,
-    candidate_cost_carbon,
-)
+from optimizer.candidates.costs import DEFAULT_CARBON_CONCRETE, DEFAULT_CARBON_STEEL, CostFactors, candidate_cost_carbon
 from optimizer.candidates.feasibility import (
     RECHECK_BAND,
     CellTable,

@@ -54,8 +54,18 @@ from design.sections import CircBars, CircSection, RectBars, RectSection, parse_
 from optimizer.building import MISSING, Scenario, TomlTable
 from optimizer.errors import InputError, reject_unknown_keys
 
-__all__ = ["Shape", "CatalogueSpec", "ColumnType", "Catalogue", "read_catalogue_spec", "build_catalogue",
-           "reject_unknown", "type_arrays", "STEEL_DENSITY", "LINK_DIAS"]
+__all__ = [
+    "Shape",
+    "CatalogueSpec",
+    "ColumnType",
+    "Catalogue",
+    "read_catalogue_spec",
+    "build_catalogue",
+    "reject_unknown",
+    "type_arrays",
+    "STEEL_DENSITY",
+    "LINK_DIAS",
+]
 
 LINK_DIAS = (8.0, 10.0, 12.0, 16.0)
 STEEL_DENSITY = 7850.0  # kg/m3, nominal mass of reinforcing steel (EN 10080 nominal mass)
@@ -143,13 +153,16 @@ def _floats(t: TomlTable, key: str, default: tuple[float, ...]) -> tuple[float, 
     value = t.raw(key, required=False)
     if value is MISSING:
         return default
-    if not isinstance(value, list) or not value or not all(
-            isinstance(v, (int, float)) and not isinstance(v, bool) and v > 0 for v in value):
+    if (
+        not isinstance(value, list)
+        or not value
+        or not all(isinstance(v, (int, float)) and not isinstance(v, bool) and v > 0 for v in value)
+    ):
         raise InputError(t.file, t.key(key), value, "a non-empty list of positive numbers (mm)")
     return tuple(float(v) for v in value)
 
 
-def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:
+def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:  # noqa: PLR0912, PLR0915 - reads and validates one input table, one branch per key
     """The ``[catalogue]`` table of a scenario as a CatalogueSpec (defaults where absent)."""
     raw = scenario.reserved.get("catalogue")
     if raw is None:
@@ -167,13 +180,16 @@ def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:
         try:
             kw["shapes"] = tuple(Shape(s) for s in shapes)
         except ValueError:
-            raise InputError(t.file, t.key("shapes"), shapes,
-                             "a list of 'square', 'rectangular', 'circular'") from None
+            raise InputError(t.file, t.key("shapes"), shapes, "a list of 'square', 'rectangular', 'circular'") from None
     elif shapes is not MISSING:
         raise InputError(t.file, t.key("shapes"), shapes, "a list of 'square', 'rectangular', 'circular'")
     kw["aspects"] = _floats(t, "aspects", CatalogueSpec.aspects)
-    for key, name in (("max_bar_pitch_mm", "max_bar_pitch"),
-                      ("max_steel_ratio", "max_steel_ratio"), ("cover_mm", "cover"), ("min_size_mm", "min_size")):
+    for key, name in (
+        ("max_bar_pitch_mm", "max_bar_pitch"),
+        ("max_steel_ratio", "max_steel_ratio"),
+        ("cover_mm", "cover"),
+        ("min_size_mm", "min_size"),
+    ):
         v = t.num(key, required=False, positive=True)
         if v is not None:
             kw[name] = v
@@ -211,8 +227,23 @@ def read_catalogue_spec(scenario: Scenario) -> CatalogueSpec:
             except ValueError as exc:
                 raise InputError(t.file, t.key("grades"), g, str(exc)) from None
         kw["grades"] = tuple(sorted(set(fcks)))
-    reject_unknown(t, {"sizes_mm", "shapes", "aspects", "bar_dias", "grades", "mixed_corners", "max_bar_pitch_mm",
-                        "max_steel_ratio", "cover_mm", "min_size_mm", "exclude", "types"})
+    reject_unknown(
+        t,
+        {
+            "sizes_mm",
+            "shapes",
+            "aspects",
+            "bar_dias",
+            "grades",
+            "mixed_corners",
+            "max_bar_pitch_mm",
+            "max_steel_ratio",
+            "cover_mm",
+            "min_size_mm",
+            "exclude",
+            "types",
+        },
+    )
     try:
         return CatalogueSpec(**kw)
     except ValueError as exc:
@@ -254,8 +285,12 @@ def required_cover(scenario: Scenario, spec: CatalogueSpec, params: NationalPara
         if dur > worst_dur:
             worst_dur, worst_exp = dur, exp
     if worst_exp is None:
-        raise InputError(scenario.source, "catalogue.cover_mm", None,
-                         "missing: give cover_mm, or exposure classes in [[settings]] to derive it")
+        raise InputError(
+            scenario.source,
+            "catalogue.cover_mm",
+            None,
+            "missing: give cover_mm, or exposure classes in [[settings]] to derive it",
+        )
 
     def cover(phi: float, link: float, width: float = 0.0, n_bars: int = 4, phi_small: float | None = None) -> float:
         to_link = float(cnom(cmin(cmin_b(link, dg), worst_dur, params), params))
@@ -270,8 +305,10 @@ def required_cover(scenario: Scenario, spec: CatalogueSpec, params: NationalPara
         return 5.0 * math.ceil(need / 5.0 - 1e-9)
 
     fire_note = f" and {worst_fire.name} (EN 1992-1-2 Table 5.2a axis distance)" if worst_fire else ""
-    return cover, (f"derived for exposure {worst_exp.name} (cmin,dur = {worst_dur:g} mm){fire_note} and each "
-                   "type's bars (EN 1992-1-1 4.4.1), rounded up to 5 mm")
+    return cover, (
+        f"derived for exposure {worst_exp.name} (cmin,dur = {worst_dur:g} mm){fire_note} and each "
+        "type's bars (EN 1992-1-1 4.4.1), rounded up to 5 mm"
+    )
 
 
 def _link_for(phi_max: float) -> float:
@@ -279,8 +316,9 @@ def _link_for(phi_max: float) -> float:
     return next(d for d in LINK_DIAS if d >= need - 1e-9)
 
 
-def _face_counts(width: float, cover: float, link: float, dia: float, spec: CatalogueSpec, dg: float,
-                 params: NationalParameters) -> list[int]:
+def _face_counts(
+    width: float, cover: float, link: float, dia: float, spec: CatalogueSpec, dg: float, params: NationalParameters
+) -> list[int]:
     """Bar counts per face (corners included) that fit and are not too far apart."""
     usable = width - 2 * (cover + link) - dia  # centre-to-centre length between corner bars
     if usable <= 0:
@@ -301,7 +339,7 @@ def _sizes(spec: CatalogueSpec) -> list[float]:
     return [spec.size_min + k * spec.size_step for k in range(n) if spec.size_min + k * spec.size_step >= spec.min_size]
 
 
-def build_catalogue(scenario: Scenario, spec: CatalogueSpec | None = None) -> Catalogue:
+def build_catalogue(scenario: Scenario, spec: CatalogueSpec | None = None) -> Catalogue:  # noqa: PLR0912, PLR0915 - generates the types shape by shape, one branch per catalogue rule
     """Generate the catalogue of a scenario (every grade used in the building)."""
     params = scenario.params
     spec = spec or read_catalogue_spec(scenario)
@@ -354,8 +392,13 @@ def build_catalogue(scenario: Scenario, spec: CatalogueSpec | None = None) -> Ca
                             continue
                         big = max(dia, corner or 0.0)
                         try:
-                            sec = RectSection(b, h, cover_for(big, _link_for(big), b, 2 * nb + 2 * nh - 4, dia),
-                                              _link_for(big), RectBars(dia, nb, nh, corner))
+                            sec = RectSection(
+                                b,
+                                h,
+                                cover_for(big, _link_for(big), b, 2 * nb + 2 * nh - 4, dia),
+                                _link_for(big),
+                                RectBars(dia, nb, nh, corner),
+                            )
                         except ValueError:
                             continue
                         if not _ratio_ok(sec, spec, params):
@@ -413,8 +456,7 @@ def _explicit(b, h, D, bars, cover_for, concretes, steel, params, scenario):
     terms = parse_bar_notation(bars)
     dias = [d for _, d in terms]
     link = _link_for(max(dias))
-    cover = cover_for(max(dias), link, min(float(b or D or 0), float(h or D or 0)), sum(n for n, _ in terms),
-                      min(dias))
+    cover = cover_for(max(dias), link, min(float(b or D or 0), float(h or D or 0)), sum(n for n, _ in terms), min(dias))
     total = sum(n for n, _ in terms)
     try:
         if D is not None:
@@ -451,8 +493,9 @@ def type_arrays(cat: Catalogue, ties: np.ndarray | None = None) -> dict[str, np.
         "nb": np.array([s.bars.n if isinstance(s, CircSection) else s.bars.nb for s in secs]),
         "nh": np.array([0 if isinstance(s, CircSection) else s.bars.nh for s in secs]),
         "dia": np.array([s.bars.dia for s in secs], dtype=float),
-        "corner_dia": np.array([s.bars.dia if isinstance(s, CircSection) else s.bars.corner for s in secs],
-                               dtype=float),
+        "corner_dia": np.array(
+            [s.bars.dia if isinstance(s, CircSection) else s.bars.corner for s in secs], dtype=float
+        ),
         "fck": np.array([t.design.concrete.fck for t in cat.types], dtype=float),
         "As": np.array([s.As for s in secs]),
         "Ac": np.array([s.Ac for s in secs]),

@@ -15,12 +15,29 @@ import numpy as np
 if TYPE_CHECKING:
     from optimizer.candidates.feasibility import Feasibility
 
-__all__ = ["CostFactors", "DEFAULT_CARBON_CONCRETE", "DEFAULT_CARBON_STEEL", "CONCRETE_DENSITY", "carbon_per_m3",
-           "candidate_cost_carbon"]
+__all__ = [
+    "CostFactors",
+    "DEFAULT_CARBON_CONCRETE",
+    "DEFAULT_CARBON_STEEL",
+    "CONCRETE_DENSITY",
+    "carbon_per_m3",
+    "candidate_cost_carbon",
+]
 
 # kgCO2e per m3 of concrete by fck (MPa), CEM I, ICE v3.0 (values recalled from memory, x 2,400 kg/m3).
-DEFAULT_CARBON_CONCRETE = {20: 0.112, 25: 0.119, 28: 0.126, 30: 0.138, 32: 0.149, 35: 0.159, 40: 0.170,
-                           45: 0.180, 50: 0.190, 55: 0.200, 60: 0.210}
+DEFAULT_CARBON_CONCRETE = {
+    20: 0.112,
+    25: 0.119,
+    28: 0.126,
+    30: 0.138,
+    32: 0.149,
+    35: 0.159,
+    40: 0.170,
+    45: 0.180,
+    50: 0.190,
+    55: 0.200,
+    60: 0.210,
+}
 DEFAULT_CARBON_STEEL = 1.99  # kgCO2e/kg, rebar world typical, ICE v3.0 (recalled from memory)
 CONCRETE_DENSITY = 2400.0  # kg/m3 for converting ICE per-kg factors
 
@@ -80,6 +97,10 @@ def candidate_cost_carbon(feas: Feasibility, costs: CostFactors) -> tuple[np.nda
     if not costs.has_cost:
         return np.full(feas.cand_cell.size, np.nan), carbon
     conc_rate = np.array([costs.concrete_rate(f) for f in type_fck])[feas.cand_type]
-    cost = (feas.steel_kg / 1000.0 * costs.steel_per_t + feas.concrete_m3 * conc_rate
-            + feas.formwork_m2 * (costs.formwork_per_m2 or 0.0) + feas.plan_m2 * (costs.plan_area_per_m2 or 0.0))
+    cost = (
+        feas.steel_kg / 1000.0 * costs.steel_per_t
+        + feas.concrete_m3 * conc_rate
+        + feas.formwork_m2 * (costs.formwork_per_m2 or 0.0)
+        + feas.plan_m2 * (costs.plan_area_per_m2 or 0.0)
+    )
     return cost, carbon

@@ -35,8 +35,18 @@ from optimizer.building import Orientation, Scenario, fire_requirement
 from optimizer.candidates.catalogue import STEEL_DENSITY, Catalogue, type_arrays
 from optimizer.errors import InputError
 
-__all__ = ["CellTable", "Feasibility", "cell_table", "check_pairs", "check_settings_for", "feasibility",
-           "quantities", "undesignable_lines", "undesignable_frame", "RECHECK_BAND"]
+__all__ = [
+    "CellTable",
+    "Feasibility",
+    "cell_table",
+    "check_pairs",
+    "check_settings_for",
+    "feasibility",
+    "quantities",
+    "undesignable_lines",
+    "undesignable_frame",
+    "RECHECK_BAND",
+]
 
 RECHECK_BAND = (0.99, 1.01)  # screened utilisations re-checked with the exact solver
 _RESISTANCE_CHECKS = ("bending about y", "bending about z", "biaxial interaction")
@@ -81,13 +91,22 @@ class CellTable:
         def known(values: np.ndarray) -> np.ndarray | None:
             v = values[cc]
             return None if np.any(~np.isfinite(v)) else v
-        y, z = (("My", "Mz") if orient == 0 else ("Mz", "My"))
+
+        y, z = ("My", "Mz") if orient == 0 else ("Mz", "My")
         l0y, l0z = (self.l0y, self.l0z) if orient == 0 else (self.l0z, self.l0y)
-        return ColumnActions(NEd=self.NEd[cc], My_top=getattr(self, f"{y}_top")[cc],
-                             My_bot=getattr(self, f"{y}_bot")[cc], Mz_top=getattr(self, f"{z}_top")[cc],
-                             Mz_bot=getattr(self, f"{z}_bot")[cc], l0y=l0y[cc], l0z=l0z[cc],
-                             l_clear=self.l_clear[cc], l0_fi=self.l0_fi[cc], M0Eqp_ratio=known(self.M0Eqp_ratio),
-                             char_ratio=known(self.char_ratio))
+        return ColumnActions(
+            NEd=self.NEd[cc],
+            My_top=getattr(self, f"{y}_top")[cc],
+            My_bot=getattr(self, f"{y}_bot")[cc],
+            Mz_top=getattr(self, f"{z}_top")[cc],
+            Mz_bot=getattr(self, f"{z}_bot")[cc],
+            l0y=l0y[cc],
+            l0z=l0z[cc],
+            l_clear=self.l_clear[cc],
+            l0_fi=self.l0_fi[cc],
+            M0Eqp_ratio=known(self.M0Eqp_ratio),
+            char_ratio=known(self.char_ratio),
+        )
 
 
 def _num(df: pd.DataFrame, col: str) -> np.ndarray:
@@ -103,8 +122,10 @@ def cell_table(scenario: Scenario, actions: pd.DataFrame) -> CellTable:
     """
     df = actions.set_index(["stack", "level"])
     n = len(scenario.cells)
-    out = {k: np.zeros(n) for k in ("NEd", "My_top", "My_bot", "Mz_top", "Mz_bot", "l0y", "l0z", "l_clear",
-                                    "height", "fck")}
+    out = {
+        k: np.zeros(n)
+        for k in ("NEd", "My_top", "My_bot", "Mz_top", "Mz_bot", "l0y", "l0z", "l_clear", "height", "fck")
+    }
     exposure, fire, names = [], [], []
     free = np.zeros(n, dtype=bool)
     has_above = np.zeros(n, dtype=bool)
@@ -113,14 +134,22 @@ def cell_table(scenario: Scenario, actions: pd.DataFrame) -> CellTable:
     for c in scenario.cells:
         key = (c.stack, c.level)
         if key not in row_of:
-            raise InputError(scenario.source, f"actions for {c.stack} at {c.level}", None,
-                             "a row in the actions table for every cell")
+            raise InputError(
+                scenario.source,
+                f"actions for {c.stack} at {c.level}",
+                None,
+                "a row in the actions table for every cell",
+            )
         r = df.loc[key]
         i = c.index
         names.append(key)
         out["NEd"][i] = float(r["NEd_kN"]) * 1e3
-        for col, name in (("My_top_kNm", "My_top"), ("My_bot_kNm", "My_bot"), ("Mz_top_kNm", "Mz_top"),
-                          ("Mz_bot_kNm", "Mz_bot")):
+        for col, name in (
+            ("My_top_kNm", "My_top"),
+            ("My_bot_kNm", "My_bot"),
+            ("Mz_top_kNm", "Mz_top"),
+            ("Mz_bot_kNm", "Mz_bot"),
+        ):
             out[name][i] = float(r[col]) * 1e6
         out["l_clear"][i] = c.clear_height_m * 1000.0
         out["height"][i] = c.height_m * 1000.0
@@ -136,8 +165,12 @@ def cell_table(scenario: Scenario, actions: pd.DataFrame) -> CellTable:
                 k1 = getattr(el, f"k1{ax}", None) if el else None
                 k2 = getattr(el, f"k2{ax}", None) if el else None
                 if k1 is None or k2 is None:
-                    raise InputError(scenario.source, f"effective length of {c.stack} at {c.level}", None,
-                                     f"l0{ax}_mm in the actions, an l0 factor, or k1{ax}/k2{ax} in [[settings]]")
+                    raise InputError(
+                        scenario.source,
+                        f"effective length of {c.stack} at {c.level}",
+                        None,
+                        f"l0{ax}_mm in the actions, an l0 factor, or k1{ax}/k2{ax} in [[settings]]",
+                    )
                 val = float(slenderness.l0_braced(out["l_clear"][i], k1, k2))
             out[f"l0{ax}"][i] = val
         exp = r["exposure"] if "exposure" in r.index and isinstance(r["exposure"], str) and r["exposure"] else None
@@ -157,11 +190,24 @@ def cell_table(scenario: Scenario, actions: pd.DataFrame) -> CellTable:
     for col in ("M0Eqp_ratio", "char_ratio"):
         ratios[col] = np.full(n, np.nan)
         if col in actions.columns:
-            by_key = dict(zip(zip(actions["stack"], actions["level"], strict=True),
-                              actions[col].to_numpy(dtype=float), strict=True))
+            by_key = dict(
+                zip(
+                    zip(actions["stack"], actions["level"], strict=True),
+                    actions[col].to_numpy(dtype=float),
+                    strict=True,
+                )
+            )
             ratios[col] = np.array([by_key[key] for key in names], dtype=float)
-    return CellTable(cells=tuple(names), exposure=tuple(exposure), fire=tuple(fire), free=free, has_above=has_above,
-                     l0_fi=l0_fi, **ratios, **out)
+    return CellTable(
+        cells=tuple(names),
+        exposure=tuple(exposure),
+        fire=tuple(fire),
+        free=free,
+        has_above=has_above,
+        l0_fi=l0_fi,
+        **ratios,
+        **out,
+    )
 
 
 @dataclass
@@ -222,18 +268,23 @@ class Feasibility:
         return [int(i) for i in np.nonzero(~has)[0]]
 
 
-def check_settings_for(scenario: Scenario, exposure: str | None, fire: str | None,
-                       fire_rule: str = "flag") -> CheckSettings:
+def check_settings_for(
+    scenario: Scenario, exposure: str | None, fire: str | None, fire_rule: str = "flag"
+) -> CheckSettings:
     """Member-check settings of the cells of one (exposure, fire) group of a scenario."""
     rating = None
     if fire:
         rating = FireRating(int(str(fire).upper().removeprefix("R")))
-    return CheckSettings(exposure=exposure or None, fire=rating,
-                         aggregate=scenario.materials.aggregate_mm, fire_outside_method=fire_rule,
-                         creep=scenario.creep)
+    return CheckSettings(
+        exposure=exposure or None,
+        fire=rating,
+        aggregate=scenario.materials.aggregate_mm,
+        fire_outside_method=fire_rule,
+        creep=scenario.creep,
+    )
 
 
-def feasibility(
+def feasibility(  # noqa: PLR0915 - screening, exact re-check band and quantities in one pass over chunks
     scenario: Scenario,
     catalogue: Catalogue,
     actions: pd.DataFrame,
@@ -293,7 +344,7 @@ def feasibility(
         settings = check_settings_for(scenario, exp, fire, fire_rule)
         per_chunk = max(1, max_pairs // len(types_arr))
         for start in range(0, len(cells_arr), per_chunk):
-            tasks.append((cells_arr[start:start + per_chunk], types_arr, orient, settings))
+            tasks.append((cells_arr[start : start + per_chunk], types_arr, orient, settings))
 
     def work(task):
         cs, types_arr, orient, settings = task
@@ -324,8 +375,9 @@ def feasibility(
         cols = [k for k, c in enumerate(res.checks) if c.name in _RESISTANCE_CHECKS]
         others = np.delete(umat, cols, axis=1)
         u_res = umat[:, cols].max(axis=1)
-        band = full[np.nonzero((u_res >= RECHECK_BAND[0]) & (u_res <= RECHECK_BAND[1])
-                               & (others.max(axis=1) <= 1.0 + 1e-9))[0]]
+        band = full[
+            np.nonzero((u_res >= RECHECK_BAND[0]) & (u_res <= RECHECK_BAND[1]) & (others.max(axis=1) <= 1.0 + 1e-9))[0]
+        ]
         if band.size:
             exact, _ = check_pairs(data, cc[band], tt[band], ct, orient, settings, params, fast=False)
             util = util.copy()
@@ -377,11 +429,22 @@ def feasibility(
     q = quantities(ct, ta, cand_cell, cand_type, scenario)
     best_check = [check_names[g] if g >= 0 else "" for g in best_gov]
     return Feasibility(
-        catalogue=catalogue, cells=ct, cand_cell=cand_cell, cand_type=cand_type, cand_orient=cand_orient,
-        utilisation=util, governing=gov, unverified=unverified, check_names=check_names, best_util=best_util,
+        catalogue=catalogue,
+        cells=ct,
+        cand_cell=cand_cell,
+        cand_type=cand_type,
+        cand_orient=cand_orient,
+        utilisation=util,
+        governing=gov,
+        unverified=unverified,
+        check_names=check_names,
+        best_util=best_util,
         best_type=best_type,
-        best_check=best_check, pairs_checked=checked,
-        exact_rechecks=rechecks, seconds=time.perf_counter() - t0, **q,
+        best_check=best_check,
+        pairs_checked=checked,
+        exact_rechecks=rechecks,
+        seconds=time.perf_counter() - t0,
+        **q,
     )
 
 
@@ -394,8 +457,16 @@ def _global_check_ids(names: list[str], registry: list[str]) -> np.ndarray:
     return np.array(ids, dtype=int)
 
 
-def check_pairs(data: SectionData, cc: np.ndarray, tt: np.ndarray, ct: CellTable, orient: int,
-                settings: CheckSettings, params, fast: bool):
+def check_pairs(
+    data: SectionData,
+    cc: np.ndarray,
+    tt: np.ndarray,
+    ct: CellTable,
+    orient: int,
+    settings: CheckSettings,
+    params,
+    fast: bool,
+):
     """Member check of pairs (cell cc, type tt); orientation 1 swaps the plan axes."""
     res = check_members(data, tt, ct.actions(cc, orient), settings, params, fast=fast)
     names = [f"{c.name} ({c.clause})" for c in res.checks]
@@ -428,16 +499,23 @@ def quantities(ct: CellTable, ta: dict, cell: np.ndarray, typ: np.ndarray, scena
     cov = ta["cover"][typ]
     inner_b, inner_h = b - 2 * cov - link, h - 2 * cov - link
     perim = np.where(circ, math.pi * (b - 2 * cov - link), 2 * (inner_b + inner_h)) + 2 * 10 * link
-    n_links = detailing.link_count(ct.l_clear[cell], np.maximum(b, h), ta["link_spacing"][typ],
-                                   ta["max_dia"][typ], np.where(ct.has_above[cell], lap, 0.0), params)
+    n_links = detailing.link_count(
+        ct.l_clear[cell],
+        np.maximum(b, h),
+        ta["link_spacing"][typ],
+        ta["max_dia"][typ],
+        np.where(ct.has_above[cell], lap, 0.0),
+        params,
+    )
     tie_len = TIE_LENGTH_FACTOR * np.minimum(b, h) + 2 * 10 * link
     link_area = math.pi * link**2 / 4
     link_kg = (n_links * perim + n_links * ta["extra_ties"][typ] * tie_len) * link_area * 1e-9 * STEEL_DENSITY
     clear_m = ct.l_clear[cell] / 1000.0
     concrete = Ac * 1e-6 * clear_m
     formwork = np.where(circ, math.pi * b, 2 * (b + h)) * 1e-3 * clear_m
-    return dict(main_kg=main_kg, lap_kg=lap_kg, link_kg=link_kg, concrete_m3=concrete, formwork_m2=formwork,
-                plan_m2=Ac * 1e-6)
+    return dict(
+        main_kg=main_kg, lap_kg=lap_kg, link_kg=link_kg, concrete_m3=concrete, formwork_m2=formwork, plan_m2=Ac * 1e-6
+    )
 
 
 def undesignable_lines(fe: Feasibility) -> list[str]:
@@ -461,7 +539,14 @@ def undesignable_frame(fe: Feasibility) -> pd.DataFrame:
     for i in fe.undesignable():
         stack, level = fe.cells.cells[i]
         t = fe.catalogue.types[fe.best_type[i]] if fe.best_type[i] >= 0 else None
-        rows.append({"stack": stack, "level": level, "NEd_kN": round(fe.cells.NEd[i] / 1e3, 1),
-                     "best_type": t.label if t else "", "best_utilisation": fe.best_util[i],
-                     "governing": fe.best_check[i]})
+        rows.append(
+            {
+                "stack": stack,
+                "level": level,
+                "NEd_kN": round(fe.cells.NEd[i] / 1e3, 1),
+                "best_type": t.label if t else "",
+                "best_utilisation": fe.best_util[i],
+                "governing": fe.best_check[i],
+            }
+        )
     return pd.DataFrame(rows, columns=["stack", "level", "NEd_kN", "best_type", "best_utilisation", "governing"])

@@ -34,8 +34,7 @@ _COMMAND_MODULES = (
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser with every subcommand registered."""
     parser = argparse.ArgumentParser(
-        prog="colstack",
-        description="Eurocode 2 design and rationalisation of reinforced-concrete columns. " + CAUTION,
+        prog="colstack", description="Eurocode 2 design and rationalisation of reinforced-concrete columns. " + CAUTION
     )
     parser.add_argument("--version", action="version", version=f"colstack {__version__}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")

@@ -49,10 +49,38 @@ EXIT_PASS = 0  # the column passes every check
 EXIT_FAIL = 1  # the column fails a check (bad input is 2, optimizer.errors.EXIT_INPUT)
 
 CHECK_KEYS = {
-    "My", "Mz", "l0y", "l0z", "height", "l0_factor", "l0_factor_y", "l0_factor_z", "k1y", "k2y", "k1z",
-    "k2z", "braced", "phi_ef", "exposure", "fire", "mu_fi", "imperfection", "min_eccentricity", "biaxial",
-    "working_life_100y", "l0_fi", "M0Eqp_ratio", "char_ratio", "As_below", "s_link", "s_link_zone", "VEd",
-    "relative_humidity", "age_at_loading", "cement_class", "curvature_c",
+    "My",
+    "Mz",
+    "l0y",
+    "l0z",
+    "height",
+    "l0_factor",
+    "l0_factor_y",
+    "l0_factor_z",
+    "k1y",
+    "k2y",
+    "k1z",
+    "k2z",
+    "braced",
+    "phi_ef",
+    "exposure",
+    "fire",
+    "mu_fi",
+    "imperfection",
+    "min_eccentricity",
+    "biaxial",
+    "working_life_100y",
+    "l0_fi",
+    "M0Eqp_ratio",
+    "char_ratio",
+    "As_below",
+    "s_link",
+    "s_link_zone",
+    "VEd",
+    "relative_humidity",
+    "age_at_loading",
+    "cement_class",
+    "curvature_c",
 }
 
 
@@ -101,7 +129,7 @@ def _enum(path: str, key: str, value: Any, enum: type) -> Any:
         raise InputError(path, key, value, f"one of {options}") from None
 
 
-def _effective_lengths(path: str, data: dict) -> tuple[float, float, float | None, dict[str, str]]:
+def _effective_lengths(path: str, data: dict) -> tuple[float, float, float | None, dict[str, str]]:  # noqa: PLR0912 - one branch per way of giving l0 (5.8.3.2)
     """(l0y, l0z, clear height, how each was found) in mm."""
     height = None
     if "height" in data:
@@ -126,12 +154,17 @@ def _effective_lengths(path: str, data: dict) -> tuple[float, float, float | Non
             fn = slenderness.l0_braced if braced else slenderness.l0_unbraced
             l0[ax] = float(fn(height, k1, k2))
             if braced:
-                notes[ax] = (f"Eq. (5.15), braced: 0.5 x {height:,.0f} x sqrt((1 + {k1:g}/(0.45 + {k1:g})) "
-                             f"(1 + {k2:g}/(0.45 + {k2:g})))")
+                notes[ax] = (
+                    f"Eq. (5.15), braced: 0.5 x {height:,.0f} x sqrt((1 + {k1:g}/(0.45 + {k1:g})) "
+                    f"(1 + {k2:g}/(0.45 + {k2:g})))"
+                )
             else:
                 notes[ax] = f"Eq. (5.16), unbraced: clear height {height:,.0f} mm, k1 = {k1:g}, k2 = {k2:g}"
-            raised = [f"{k} = {v:g}" for k, v in zip(ks, k_given, strict=True)
-                      if v < float(slenderness.k_restraint(v)) - 1e-12]
+            raised = [
+                f"{k} = {v:g}"
+                for k, v in zip(ks, k_given, strict=True)
+                if v < float(slenderness.k_restraint(v)) - 1e-12
+            ]
             if raised:
                 notes[ax] += f" ({', '.join(raised)} raised to the recommended minimum 0.1, 5.8.3.2(3))"
         elif fac_key in data:
@@ -141,15 +174,16 @@ def _effective_lengths(path: str, data: dict) -> tuple[float, float, float | Non
             l0[ax] = f * height
             notes[ax] = f"{f:g} x clear height {height:,.0f} mm"
         else:
-            raise InputError(path, key, None,
-                             f"missing: give {key} (mm), or height with l0_factor, or {ks[0]} and {ks[1]}")
+            raise InputError(
+                path, key, None, f"missing: give {key} (mm), or height with l0_factor, or {ks[0]} and {ks[1]}"
+            )
         problem = spec_length_problem(l0[ax], "l0")
         if problem is not None:  # a derived length: name the inputs it came from
             raise InputError(path, key, round(l0[ax], 1), f"{problem}, from {notes[ax]}")
     return l0["y"], l0["z"], height, notes
 
 
-def parse_check_spec(data: dict, path: str):
+def parse_check_spec(data: dict, path: str):  # noqa: PLR0912 - reads and validates one input file, one branch per key
     """(SectionSpec, ColumnActions, CheckSettings, l0 notes) from a loaded specification."""
     check_keys(path, "", data, SECTION_KEYS | CHECK_KEYS)
     spec = section_spec(data, path, extra_keys=CHECK_KEYS)
@@ -161,13 +195,19 @@ def parse_check_spec(data: dict, path: str):
     if "phi_ef" in data:
         phi_ef = number(path, "phi_ef", data["phi_ef"], positive=True, maximum=10)
     optional = {}
-    for key, scale, upper, unit in (("M0Eqp_ratio", 1.0, 1.5, ""), ("char_ratio", 1.0, 1.5, ""),
-                                    ("As_below", 1.0, 1e6, "mm2"), ("s_link", 1.0, 1000.0, "mm"),
-                                    ("s_link_zone", 1.0, 1000.0, "mm"), ("VEd", 1e3, 1e5, "kN")):
+    for key, scale, upper, unit in (
+        ("M0Eqp_ratio", 1.0, 1.5, ""),
+        ("char_ratio", 1.0, 1.5, ""),
+        ("As_below", 1.0, 1e6, "mm2"),
+        ("s_link", 1.0, 1000.0, "mm"),
+        ("s_link_zone", 1.0, 1000.0, "mm"),
+        ("VEd", 1e3, 1e5, "kN"),
+    ):
         if key in data:
             zero_ok = key in ("M0Eqp_ratio", "char_ratio", "As_below", "VEd")
-            optional[key] = number(path, key, data[key], positive=True, allow_zero=zero_ok, maximum=upper,
-                                   unit=unit) * scale
+            optional[key] = (
+                number(path, key, data[key], positive=True, allow_zero=zero_ok, maximum=upper, unit=unit) * scale
+            )
     creep_keys = {"relative_humidity": "RH_percent", "age_at_loading": "t0_days", "cement_class": "cement"}
     creep_args = {}
     for key, field in creep_keys.items():
@@ -177,8 +217,9 @@ def parse_check_spec(data: dict, path: str):
             elif key == "relative_humidity":
                 creep_args[field] = number(path, key, data[key], minimum=20.0, maximum=100.0, unit="%")
             else:
-                creep_args[field] = number(path, key, data[key], positive=True, allow_zero=False, maximum=3650.0,
-                                           unit="days")
+                creep_args[field] = number(
+                    path, key, data[key], positive=True, allow_zero=False, maximum=3650.0, unit="days"
+                )
     curvature_c = None
     if "curvature_c" in data:
         curvature_c = number(path, "curvature_c", data["curvature_c"], minimum=8.0, maximum=12.0)
@@ -194,15 +235,17 @@ def parse_check_spec(data: dict, path: str):
         try:
             fire = FireRating(int(text))
         except ValueError:
-            raise InputError(path, "fire", data["fire"],
-                             "one of 'none', 'R30', 'R60', 'R90', 'R120', 'R180', 'R240'") from None
+            raise InputError(
+                path, "fire", data["fire"], "one of 'none', 'R30', 'R60', 'R90', 'R120', 'R180', 'R240'"
+            ) from None
     settings = CheckSettings(
         imperfection=_enum(path, "imperfection", data.get("imperfection", "inclination"), ImperfectionMethod),
-        min_eccentricity=_enum(path, "min_eccentricity", data.get("min_eccentricity", "both-axes"),
-                               MinEccentricity),
+        min_eccentricity=_enum(path, "min_eccentricity", data.get("min_eccentricity", "both-axes"), MinEccentricity),
         biaxial=_enum(path, "biaxial", data.get("biaxial", "5.39"), BiaxialMethod),
         exact_biaxial=True,
-        exposure=exposure, creep=CreepSettings(**creep_args), curvature_c=curvature_c,
+        exposure=exposure,
+        creep=CreepSettings(**creep_args),
+        curvature_c=curvature_c,
         fire=fire,
         mu_fi=number(path, "mu_fi", data.get("mu_fi", 0.7), positive=True, maximum=1.0),
         aggregate=spec.aggregate_mm,
@@ -212,10 +255,22 @@ def parse_check_spec(data: dict, path: str):
     if "l0_fi" in data:
         l0_fi = _length(path, data, "l0_fi", "l0")
     actions = ColumnActions(
-        NEd=spec.NEd_kN * 1e3, My_top=my[0] * 1e6, My_bot=my[1] * 1e6, Mz_top=mz[0] * 1e6, Mz_bot=mz[1] * 1e6,
-        l0y=l0y, l0z=l0z, l_clear=height, l0_fi=l0_fi, phi_ef=phi_ef, braced=data.get("braced", True),
-        M0Eqp_ratio=optional.get("M0Eqp_ratio"), char_ratio=optional.get("char_ratio"),
-        As_below=optional.get("As_below"), s_link=optional.get("s_link"), s_link_zone=optional.get("s_link_zone"),
+        NEd=spec.NEd_kN * 1e3,
+        My_top=my[0] * 1e6,
+        My_bot=my[1] * 1e6,
+        Mz_top=mz[0] * 1e6,
+        Mz_bot=mz[1] * 1e6,
+        l0y=l0y,
+        l0z=l0z,
+        l_clear=height,
+        l0_fi=l0_fi,
+        phi_ef=phi_ef,
+        braced=data.get("braced", True),
+        M0Eqp_ratio=optional.get("M0Eqp_ratio"),
+        char_ratio=optional.get("char_ratio"),
+        As_below=optional.get("As_below"),
+        s_link=optional.get("s_link"),
+        s_link_zone=optional.get("s_link_zone"),
         V_Ed=optional.get("VEd"),
     )
     return spec, actions, settings, notes
@@ -251,25 +306,35 @@ def _clean(x: Any) -> Any:
 
 def check_warnings(spec: SectionSpec, actions: ColumnActions) -> list[str]:
     """Plausibility warnings of a check specification: the section's, then the moments' and lengths'."""
-    moments = {f"{key}[{j}]": float(getattr(actions, f"{key}_{end}")) / 1e6
-               for key in ("My", "Mz") for j, end in enumerate(("top", "bot"))}
+    moments = {
+        f"{key}[{j}]": float(getattr(actions, f"{key}_{end}")) / 1e6
+        for key in ("My", "Mz")
+        for j, end in enumerate(("top", "bot"))
+    }
     lengths = {"l0y": (float(actions.l0y), "y"), "l0z": (float(actions.l0z), "z")}
     section_only = spec_warnings(spec.path, None, spec.capacity)
     more = spec_warnings(spec.path, None, spec.capacity, moments, lengths)
     return [*spec.warnings, *(w for w in more if w not in section_only)]
 
 
-def _payload(result, v: dict, warnings: list[str]) -> dict:  # noqa: ANN001
+def _payload(result, v: dict, warnings: list[str]) -> dict:
     """The ``--json`` object: overall outcome, governing check of each kind, every check, every value."""
     flagged = {c.name for c in result.unverified}
     payload = {
-        "lambda_y": v["lambda_y"], "lambda_z": v["lambda_z"],
-        "lambda_lim_y": v["lambda_lim_y"], "lambda_lim_z": v["lambda_lim_z"],
-        "MEdy_kNm": v["MEdy"] / 1e6, "MEdz_kNm": v["MEdz"] / 1e6,
-        "MRdy_kNm": v["MRdy"] / 1e6, "MRdz_kNm": v["MRdz"] / 1e6,
-        "NEd_kN": v["NEd"] / 1e3, "NRd_kN": v["NRd"] / 1e3,
-        "utilisation": result.utilisation, "governing": result.governing.name,
-        "governing_clause": result.governing.clause, "governing_applicable": result.governing.applicable,
+        "lambda_y": v["lambda_y"],
+        "lambda_z": v["lambda_z"],
+        "lambda_lim_y": v["lambda_lim_y"],
+        "lambda_lim_z": v["lambda_lim_z"],
+        "MEdy_kNm": v["MEdy"] / 1e6,
+        "MEdz_kNm": v["MEdz"] / 1e6,
+        "MRdy_kNm": v["MRdy"] / 1e6,
+        "MRdz_kNm": v["MRdz"] / 1e6,
+        "NEd_kN": v["NEd"] / 1e3,
+        "NRd_kN": v["NRd"] / 1e3,
+        "utilisation": result.utilisation,
+        "governing": result.governing.name,
+        "governing_clause": result.governing.clause,
+        "governing_applicable": result.governing.applicable,
         "ok": result.ok,
     }
     by_kind = dict(kind_summary(result))
@@ -278,18 +343,29 @@ def _payload(result, v: dict, warnings: list[str]) -> dict:  # noqa: ANN001
         payload[f"utilisation_{kind.value}"] = None if ch is None else (ch.utilisation if ch.applicable else None)
         payload[f"governing_{kind.value}"] = None if ch is None else ch.name
         payload[f"governing_{kind.value}_clause"] = None if ch is None else ch.clause
-    payload.update({
-        "not_verified": sorted(flagged),
-        "checks": [
-            {"name": c.name, "kind": str(getattr(c.kind, "value", c.kind)), "clause": c.clause, "demand": c.demand,
-             "capacity": c.capacity, "unit": c.unit, "utilisation": c.utilisation if c.applicable else None,
-             "ok": c.ok, "applicable": c.applicable, "note": c.note}
-            for c in result.checks
-        ],
-        "values": {k: _jsonable(x) for k, x in v.items()},
-        "warnings": list(warnings),
-        "caution": CAUTION,
-    })
+    payload.update(
+        {
+            "not_verified": sorted(flagged),
+            "checks": [
+                {
+                    "name": c.name,
+                    "kind": str(getattr(c.kind, "value", c.kind)),
+                    "clause": c.clause,
+                    "demand": c.demand,
+                    "capacity": c.capacity,
+                    "unit": c.unit,
+                    "utilisation": c.utilisation if c.applicable else None,
+                    "ok": c.ok,
+                    "applicable": c.applicable,
+                    "note": c.note,
+                }
+                for c in result.checks
+            ],
+            "values": {k: _jsonable(x) for k, x in v.items()},
+            "warnings": list(warnings),
+            "caution": CAUTION,
+        }
+    )
     return payload
 
 

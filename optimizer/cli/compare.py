@@ -32,8 +32,13 @@ def add_parser(subparsers: argparse._SubParsersAction) -> argparse.ArgumentParse
     )
     p.add_argument("scenario", help="scenario file (TOML)")
     p.add_argument("--grades", required=True, help="comma-separated classes, e.g. C30/37,C40/50,C50/60")
-    p.add_argument("--choice", action="append", default=[], metavar="GRADES",
-                   help="also let the optimiser choose per cell among these classes (comma-separated); repeatable")
+    p.add_argument(
+        "--choice",
+        action="append",
+        default=[],
+        metavar="GRADES",
+        help="also let the optimiser choose per cell among these classes (comma-separated); repeatable",
+    )
     p.add_argument("--out", required=True, help="output folder (replaced as a whole when the comparison succeeds)")
     p.add_argument("--quiet", action="store_true", help="no progress display")
     return p
@@ -71,8 +76,21 @@ def run(args: argparse.Namespace) -> int:
             for stem, df in frames(r).items():
                 df.to_csv(sub / f"{stem}.csv", index=False)
     print(f"colstack compare  {scenario.project.name}\n{CAUTION}\n")
-    print(table[["variant", "steel_t", "concrete_m3", "carbon_tCO2e", "types", "column_plan_area_m2",
-                 "largest_ground_column", "premium_percent", "gap_percent"]].to_string(index=False))
+    print(
+        table[
+            [
+                "variant",
+                "steel_t",
+                "concrete_m3",
+                "carbon_tCO2e",
+                "types",
+                "column_plan_area_m2",
+                "largest_ground_column",
+                "premium_percent",
+                "gap_percent",
+            ]
+        ].to_string(index=False)
+    )
     print()
     for s in sentences:
         print(f"  {s}")
@@ -80,7 +98,7 @@ def run(args: argparse.Namespace) -> int:
     return 0
 
 
-def _excel(path: Path):  # noqa: ANN202
+def _excel(path: Path):
     import pandas as pd
 
     return pd.ExcelWriter(path, engine="openpyxl")

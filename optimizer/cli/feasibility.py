@@ -46,11 +46,21 @@ def catalogue_frame(cat: Catalogue) -> pd.DataFrame:
     rows = []
     for t in cat.types:
         s = t.design.section
-        rows.append({
-            "mark": t.mark, "shape": t.shape.value, "b_mm": s.b, "h_mm": s.h, "bars": s.bars.notation,
-            "As_mm2": round(s.As, 1), "rho_percent": round(100 * s.As / s.Ac, 3), "link_mm": s.link,
-            "link_spacing_mm": t.link_spacing, "cover_mm": s.cover, "grade": t.design.concrete.name,
-        })
+        rows.append(
+            {
+                "mark": t.mark,
+                "shape": t.shape.value,
+                "b_mm": s.b,
+                "h_mm": s.h,
+                "bars": s.bars.notation,
+                "As_mm2": round(s.As, 1),
+                "rho_percent": round(100 * s.As / s.Ac, 3),
+                "link_mm": s.link,
+                "link_spacing_mm": t.link_spacing,
+                "cover_mm": s.cover,
+                "grade": t.design.concrete.name,
+            }
+        )
     return pd.DataFrame(rows)
 
 
@@ -61,16 +71,34 @@ def lower_bound_frame(fe: Feasibility) -> pd.DataFrame:
     for i, (stack, level) in enumerate(fe.cells.cells):
         k = best[i]
         if k < 0:
-            rows.append({"stack": stack, "level": level, "type": "", "section": "", "grade": "",
-                         "orientation": "", "steel_kg": np.nan, "utilisation": np.nan, "governing": "none feasible"})
+            rows.append(
+                {
+                    "stack": stack,
+                    "level": level,
+                    "type": "",
+                    "section": "",
+                    "grade": "",
+                    "orientation": "",
+                    "steel_kg": np.nan,
+                    "utilisation": np.nan,
+                    "governing": "none feasible",
+                }
+            )
             continue
         t = fe.catalogue.types[fe.cand_type[k]]
-        rows.append({
-            "stack": stack, "level": level, "type": t.mark, "section": t.design.section.label,
-            "grade": t.design.concrete.name, "orientation": "turned" if fe.cand_orient[k] else "as given",
-            "steel_kg": round(float(fe.steel_kg[k]), 2), "utilisation": round(float(fe.utilisation[k]), 4),
-            "governing": fe.check_names[fe.governing[k]],
-        })
+        rows.append(
+            {
+                "stack": stack,
+                "level": level,
+                "type": t.mark,
+                "section": t.design.section.label,
+                "grade": t.design.concrete.name,
+                "orientation": "turned" if fe.cand_orient[k] else "as given",
+                "steel_kg": round(float(fe.steel_kg[k]), 2),
+                "utilisation": round(float(fe.utilisation[k]), 4),
+                "governing": fe.check_names[fe.governing[k]],
+            }
+        )
     return pd.DataFrame(rows)
 
 
@@ -94,15 +122,24 @@ def run(args: argparse.Namespace) -> int:
     _, lb = fe.lower_bound()
     lines = undesignable_lines(fe)
     summary = {
-        "scenario": str(args.scenario), "cells": len(fe.cells), "types": len(cat), "cover": cat.cover_note,
-        "pairs_checked": fe.pairs_checked, "feasible_pairs": int(fe.cand_cell.size),
-        "exact_rechecks": fe.exact_rechecks, "seconds": round(fe.seconds, 2),
-        "lower_bound_steel_kg": round(lb, 1), "undesignable_cells": lines, "caution": CAUTION,
+        "scenario": str(args.scenario),
+        "cells": len(fe.cells),
+        "types": len(cat),
+        "cover": cat.cover_note,
+        "pairs_checked": fe.pairs_checked,
+        "feasible_pairs": int(fe.cand_cell.size),
+        "exact_rechecks": fe.exact_rechecks,
+        "seconds": round(fe.seconds, 2),
+        "lower_bound_steel_kg": round(lb, 1),
+        "undesignable_cells": lines,
+        "caution": CAUTION,
     }
     (out / "summary.json").write_text(json.dumps(summary, indent=2), encoding="utf-8")
     print(f"colstack feasibility  {scenario.project.name}\n{CAUTION}\n")
-    print(f"  cells {len(fe.cells)}, types {len(cat)}, pairs checked {fe.pairs_checked:,} "
-          f"({fe.exact_rechecks:,} re-checked exactly), feasible {fe.cand_cell.size:,}, {fe.seconds:.1f} s")
+    print(
+        f"  cells {len(fe.cells)}, types {len(cat)}, pairs checked {fe.pairs_checked:,} "
+        f"({fe.exact_rechecks:,} re-checked exactly), feasible {fe.cand_cell.size:,}, {fe.seconds:.1f} s"
+    )
     print(f"  lower bound on steel (lightest feasible type per cell): {lb / 1000:,.1f} t")
     if lines:
         print(f"  {len(lines)} cell(s) no type can carry:")

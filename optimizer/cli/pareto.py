@@ -43,7 +43,7 @@ def add_parser(subparsers: argparse._SubParsersAction) -> argparse.ArgumentParse
     return p
 
 
-def sweep(problem, max_k: int, time_limit_s: float, solver: str, gap: float, progress=None) -> pd.DataFrame:  # noqa: ANN001
+def sweep(problem, max_k: int, time_limit_s: float, solver: str, gap: float, progress=None) -> pd.DataFrame:
     """One row per cap k: types used, steel, cost, carbon, objective, status and gap."""
     from optimizer.pipeline.run import optimise
     from optimizer.schedule.heuristic import figures
@@ -55,14 +55,33 @@ def sweep(problem, max_k: int, time_limit_s: float, solver: str, gap: float, pro
             progress("pareto sweep", k - 1, max_k)
         sched = optimise(problem, solver, time_limit_s, gap, k)
         if len(sched.cand) == 0 or np.any(np.asarray(sched.cand) < 0):
-            rows.append({"cap": k, "types": np.nan, "steel_t": np.nan, "cost": np.nan, "carbon_t": np.nan,
-                         "objective": np.nan, "status": sched.status, "gap": np.nan})
+            rows.append(
+                {
+                    "cap": k,
+                    "types": np.nan,
+                    "steel_t": np.nan,
+                    "cost": np.nan,
+                    "carbon_t": np.nan,
+                    "objective": np.nan,
+                    "status": sched.status,
+                    "gap": np.nan,
+                }
+            )
             continue
         fig = figures(problem, sched.cand)
         used = len(set(problem.cand_type[sched.cand].tolist()))
-        rows.append({"cap": k, "types": used, "steel_t": fig.steel_kg / 1000, "cost": fig.cost,
-                     "carbon_t": fig.carbon / 1000, "objective": fig.objective, "status": sched.status,
-                     "gap": sched.gap})
+        rows.append(
+            {
+                "cap": k,
+                "types": used,
+                "steel_t": fig.steel_kg / 1000,
+                "cost": fig.cost,
+                "carbon_t": fig.carbon / 1000,
+                "objective": fig.objective,
+                "status": sched.status,
+                "gap": sched.gap,
+            }
+        )
         if free is None:
             from optimizer.schedule.heuristic import stack_optimum
 
@@ -117,8 +136,14 @@ def _plot(table: pd.DataFrame, folder: Path) -> None:
         ax2.plot(df["types"], df["cost"], "s--", color="#b45309", label="cost")
         ax2.set_ylabel("cost")
     ax.set_title("Steel against the number of types (each point: its own optimisation)")
-    fig.text(0.5, 0.005, "Concept design only: verify under the local code and national annex.", ha="center",
-             fontsize=7, color="0.4")
+    fig.text(
+        0.5,
+        0.005,
+        "Concept design only: verify under the local code and national annex.",
+        ha="center",
+        fontsize=7,
+        color="0.4",
+    )
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     for ext in ("png", "svg"):
         fig.savefig(folder / f"pareto.{ext}", dpi=120)

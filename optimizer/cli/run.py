@@ -31,9 +31,12 @@ def _common(p: argparse.ArgumentParser) -> None:
     p.add_argument("--out", required=True, help="output folder (replaced as a whole when the run succeeds)")
     p.add_argument("--time-limit", type=float, metavar="S", help="solver time limit, seconds (scenario default)")
     p.add_argument("--solver", choices=("highs", "cbc"), help="integer-programming solver (scenario default)")
-    p.add_argument("--formulation", choices=("auto", "paths", "compact"),
-                   help="integer program over stack paths (column generation) or one binary per cell and type "
-                        "(scenario default; auto: paths wherever valid)")
+    p.add_argument(
+        "--formulation",
+        choices=("auto", "paths", "compact"),
+        help="integer program over stack paths (column generation) or one binary per cell and type "
+        "(scenario default; auto: paths wherever valid)",
+    )
     p.add_argument("--max-types", type=int, metavar="K", help="cap on distinct column types")
     p.add_argument("--quiet", action="store_true", help="no progress display")
     p.add_argument("--log-json", metavar="FILE", help="append progress events as JSON lines to FILE")
@@ -94,8 +97,14 @@ def run(args: argparse.Namespace) -> int:
     progress = Progress(sys.stderr, quiet=args.quiet, log_json=args.log_json)
     out = Path(args.out)
     try:
-        result = run_scenario(args.scenario, progress=progress, time_limit_s=args.time_limit, solver=args.solver,
-                              max_types=args.max_types, formulation=args.formulation)
+        result = run_scenario(
+            args.scenario,
+            progress=progress,
+            time_limit_s=args.time_limit,
+            solver=args.solver,
+            max_types=args.max_types,
+            formulation=args.formulation,
+        )
         extras = []
         if getattr(args, "_full", True):
             from optimizer.reporting.pictures import write_pictures
@@ -134,7 +143,11 @@ def _write_partial(exc: DesignImpossible, out: Path, scenario_path: str) -> None
         catalogue_frame(cat).to_csv(tmp / "catalogue.csv", index=False)
         lower_bound_frame(fe).to_csv(tmp / "lower_bound.csv", index=False)
         undesignable_frame(fe).to_csv(tmp / "undesignable.csv", index=False)
-        (tmp / "summary.json").write_text(json.dumps({
-            "caution": CAUTION, "status": "no design possible", "reason": str(exc), "details": exc.details,
-        }, indent=2), encoding="utf-8")
+        (tmp / "summary.json").write_text(
+            json.dumps(
+                {"caution": CAUTION, "status": "no design possible", "reason": str(exc), "details": exc.details},
+                indent=2,
+            ),
+            encoding="utf-8",
+        )
     print(f"colstack: wrote the feasibility report to {out}", file=sys.stderr)

@@ -28,6 +28,7 @@ from optimizer.errors import InputError
 
 __all__ = ["add_parser", "run", "SectionReport", "evaluate"]
 
+
 @dataclass(frozen=True)
 class SectionReport:
     """Resistances of one section at one axial load (edge units: kN, kNm, mm2)."""
@@ -68,8 +69,7 @@ def add_parser(subparsers: argparse._SubParsersAction) -> argparse.ArgumentParse
     p = subparsers.add_parser(
         "section",
         help="resistance of one column section (NRd, MRdy, MRdz at NEd)",
-        description="Resistance of one column section by strain compatibility (EN 1992-1-1, 6.1). "
-        + CAUTION,
+        description="Resistance of one column section by strain compatibility (EN 1992-1-1, 6.1). " + CAUTION,
     )
     p.add_argument("spec", help="section specification, JSON or TOML (keys: see README)")
     p.add_argument("--json", action="store_true", help="print one JSON object instead of text")
@@ -143,8 +143,14 @@ def plot_interaction(ds: DesignSection, NEd_kN: float, path: Path) -> None:
         ax.legend(loc="lower right", fontsize=8)
     axes[0].set_ylabel("N [kN] (compression positive)")
     fig.suptitle(f"{ds.section.label}, {ds.concrete.name}: N-M interaction (EN 1992-1-1, 6.1)")
-    fig.text(0.5, 0.005, "Concept design only: verify under the local code and national annex.",
-             ha="center", fontsize=7, color="0.4")
+    fig.text(
+        0.5,
+        0.005,
+        "Concept design only: verify under the local code and national annex.",
+        ha="center",
+        fontsize=7,
+        color="0.4",
+    )
     fig.tight_layout(rect=(0, 0.02, 1, 1))
     path.parent.mkdir(parents=True, exist_ok=True)
     fig.savefig(path, dpi=120)

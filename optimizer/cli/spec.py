@@ -25,16 +25,45 @@ from design.sections import CircBars, CircSection, RectBars, RectSection
 from optimizer.building.plausibility import SectionCapacity, spec_force_problem, spec_side_problem, spec_warnings
 from optimizer.errors import InputError, reject_unknown_keys
 
-__all__ = ["SectionSpec", "load_spec_file", "section_spec", "check_keys", "number", "concrete_class",
-           "section_capacity"]
+__all__ = [
+    "SectionSpec",
+    "load_spec_file",
+    "section_spec",
+    "check_keys",
+    "number",
+    "concrete_class",
+    "section_capacity",
+]
 
 SECTION_KEYS = {
-    "b", "h", "diameter", "cover", "link", "fck", "grade", "fyk", "ductility", "branch", "law",
-    "bars", "NEd", "parameters", "national", "aggregate",
+    "b",
+    "h",
+    "diameter",
+    "cover",
+    "link",
+    "fck",
+    "grade",
+    "fyk",
+    "ductility",
+    "branch",
+    "law",
+    "bars",
+    "NEd",
+    "parameters",
+    "national",
+    "aggregate",
 }
 PARAMETER_KEYS = {
-    "alpha_cc", "alpha_ct", "gamma_c", "gamma_s", "theta_0", "lambda_A", "lambda_B", "lambda_C",
-    "phi_min_long", "delta_c_dev",
+    "alpha_cc",
+    "alpha_ct",
+    "gamma_c",
+    "gamma_s",
+    "theta_0",
+    "lambda_A",
+    "lambda_B",
+    "lambda_C",
+    "phi_min_long",
+    "delta_c_dev",
 }
 
 
@@ -81,8 +110,17 @@ def check_keys(path: str, where: str, data: dict, allowed: set[str]) -> None:
     reject_unknown_keys(path, where, data, allowed)
 
 
-def number(path: str, field: str, value: Any, *, positive: bool = False, allow_zero: bool = True,
-           minimum: float | None = None, maximum: float | None = None, unit: str = "") -> float:
+def number(
+    path: str,
+    field: str,
+    value: Any,
+    *,
+    positive: bool = False,
+    allow_zero: bool = True,
+    minimum: float | None = None,
+    maximum: float | None = None,
+    unit: str = "",
+) -> float:
     """Validate a finite number, with range limits; InputError otherwise."""
     if isinstance(value, bool) or not isinstance(value, (int, float)):
         raise InputError(path, field, value, f"a number{' in ' + unit if unit else ''}")
@@ -118,7 +156,7 @@ def concrete_class(path: str, field: str, value: Any) -> float:
     A class written in part (``"C35"``, ``"35/45"``) or with the wrong cube strength is an
     error that names the class meant, never a silent reading.
     """
-    expected = "a strength class of EN 1992-1-1 Table 3.1 written in full, e.g. \"C30/37\""
+    expected = 'a strength class of EN 1992-1-1 Table 3.1 written in full, e.g. "C30/37"'
     if not isinstance(value, str):
         raise InputError(path, field, value, expected)
     key = re.sub(r"\s+", "", value).upper()
@@ -142,8 +180,13 @@ def section_capacity(design: DesignSection) -> SectionCapacity:
         hy = hz = sec.diameter
     else:
         hy, hz = sec.h, sec.b
-    return SectionCapacity(squash_kN=squash, tension_kN=sec.As * s.fyd / 1e3,
-                           moment_bound_kNm=squash * max(hy, hz) / 2 / 1e3, h_y_mm=hy, h_z_mm=hz)
+    return SectionCapacity(
+        squash_kN=squash,
+        tension_kN=sec.As * s.fyd / 1e3,
+        moment_bound_kNm=squash * max(hy, hz) / 2 / 1e3,
+        h_y_mm=hy,
+        h_z_mm=hz,
+    )
 
 
 def _plausible(path: str, field: str, value: float, kind: str, raw: Any) -> None:
@@ -161,7 +204,7 @@ def _choice(path: str, field: str, value: Any, enum: type) -> Any:
         raise InputError(path, field, value, f"one of {options}") from None
 
 
-def section_spec(data: dict[str, Any], path: str, extra_keys: set[str] = frozenset()) -> SectionSpec:
+def section_spec(data: dict[str, Any], path: str, extra_keys: set[str] = frozenset()) -> SectionSpec:  # noqa: PLR0912, PLR0915 - reads and validates one input file, one branch per key
     """Build the design section described by ``data`` (already loaded from ``path``)."""
     check_keys(path, "", data, SECTION_KEYS | set(extra_keys))
     params = parameter_set("EN")
@@ -215,8 +258,9 @@ def section_spec(data: dict[str, Any], path: str, extra_keys: set[str] = frozens
             check_keys(path, "bars", bars, {"dia", "n"})
             diameter = number(path, "diameter", data["diameter"], positive=True, allow_zero=False, unit="mm")
             _plausible(path, "diameter", diameter, "side", data["diameter"])
-            dia = number(path, "bars.dia", _required(path, bars, "dia", "bars"), positive=True,
-                         allow_zero=False, unit="mm")
+            dia = number(
+                path, "bars.dia", _required(path, bars, "dia", "bars"), positive=True, allow_zero=False, unit="mm"
+            )
             _plausible(path, "bars.dia", dia, "bar", bars["dia"])
             n = _integer(path, "bars.n", _required(path, bars, "n", "bars"), 3)
             section = CircSection(diameter, cover, link, CircBars(dia, n))
@@ -226,8 +270,9 @@ def section_spec(data: dict[str, Any], path: str, extra_keys: set[str] = frozens
             _plausible(path, "b", b, "side", data["b"])
             h = number(path, "h", _required(path, data, "h"), positive=True, allow_zero=False, unit="mm")
             _plausible(path, "h", h, "side", data["h"])
-            dia = number(path, "bars.dia", _required(path, bars, "dia", "bars"), positive=True,
-                         allow_zero=False, unit="mm")
+            dia = number(
+                path, "bars.dia", _required(path, bars, "dia", "bars"), positive=True, allow_zero=False, unit="mm"
+            )
             _plausible(path, "bars.dia", dia, "bar", bars["dia"])
             nb = _integer(path, "bars.nb", _required(path, bars, "nb", "bars"), 2)
             nh = _integer(path, "bars.nh", _required(path, bars, "nh", "bars"), 2)
@@ -247,8 +292,7 @@ def section_spec(data: dict[str, Any], path: str, extra_keys: set[str] = frozens
         problem = spec_force_problem(NEd, cap)
         if problem is not None:
             raise InputError(path, "NEd", data["NEd"], problem)
-    aggregate = number(path, "aggregate", data.get("aggregate", 20.0), positive=True, allow_zero=False,
-                       unit="mm")
+    aggregate = number(path, "aggregate", data.get("aggregate", 20.0), positive=True, allow_zero=False, unit="mm")
     return SectionSpec(path, design, params, NEd, aggregate, cap, tuple(spec_warnings(path, NEd, cap)))
 
 

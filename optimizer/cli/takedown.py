@@ -44,45 +44,72 @@ def add_parser(subparsers: argparse._SubParsersAction) -> argparse.ArgumentParse
 
 def _table(rows: list[list[str]]) -> list[str]:
     widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
-    return ["  ".join(c.rjust(w) if j else c.ljust(w) for j, (c, w) in
-                      enumerate(zip(r, widths, strict=True))) for r in rows]
+    return [
+        "  ".join(c.rjust(w) if j else c.ljust(w) for j, (c, w) in enumerate(zip(r, widths, strict=True))) for r in rows
+    ]
 
 
 def summary_text(scenario: Scenario, result: TakedownResult | None) -> str:
     """Short plain-text summary: loads per level, reactions, warnings, method."""
-    lines = [f"Project: {scenario.project.name}", f"Scenario: {scenario.source}",
-             f"National parameters: {scenario.params.name}",
-             f"Cells: {len(scenario.cells)} ({len(scenario.stacks)} stacks x "
-             f"{len(scenario.levels)} levels)", ""]
+    lines = [
+        f"Project: {scenario.project.name}",
+        f"Scenario: {scenario.source}",
+        f"National parameters: {scenario.params.name}",
+        f"Cells: {len(scenario.cells)} ({len(scenario.stacks)} stacks x {len(scenario.levels)} levels)",
+        "",
+    ]
     if result is None:
-        lines += [f"Actions read from an analysis: {scenario.actions_file}",
-                  "Lateral stability: the columns are braced; the cores are assumed to carry "
-                  "all horizontal actions.", ""]
+        lines += [
+            f"Actions read from an analysis: {scenario.actions_file}",
+            "Lateral stability: the columns are braced; the cores are assumed to carry all horizontal actions.",
+            "",
+        ]
         return "\n".join(lines)
     opts = scenario.takedown
-    lines += [f"Combination: EN 1990 Eq. ({opts.combination.value}); imposed load "
-              f"reduction: {opts.imposed_reduction.value}", "",
-              "Total characteristic load per level (carried by the columns):"]
+    lines += [
+        f"Combination: EN 1990 Eq. ({opts.combination.value}); imposed load reduction: {opts.imposed_reduction.value}",
+        "",
+        "Total characteristic load per level (carried by the columns):",
+    ]
     rows = [["level", "area_m2", "Gk_floor_kN", "Qk_floor_kN", "column_sw_kN"]]
     for r in result.level_totals.itertuples():
-        rows.append([r.level, f"{r.floor_area_m2:.1f}", f"{r.Gk_floor_kN:.0f}",
-                     f"{r.Qk_floor_kN:.0f}", f"{r.column_self_weight_kN:.0f}"])
+        rows.append(
+            [
+                r.level,
+                f"{r.floor_area_m2:.1f}",
+                f"{r.Gk_floor_kN:.0f}",
+                f"{r.Qk_floor_kN:.0f}",
+                f"{r.column_self_weight_kN:.0f}",
+            ]
+        )
     lines += _table(rows) + [""]
     re_ = result.reactions
-    for kind, title in (("foundation", "Reactions at the foundation"),
-                        ("external", "Reactions on external transfer structures"),
-                        ("transfer", "Loads delivered by transfer stacks to their supports")):
+    for kind, title in (
+        ("foundation", "Reactions at the foundation"),
+        ("external", "Reactions on external transfer structures"),
+        ("transfer", "Loads delivered by transfer stacks to their supports"),
+    ):
         sub = re_[re_["kind"] == kind]
         if sub.empty:
             continue
         lines.append(f"{title}:")
         rows = [["stack", "level", "onto", "share", "Gk_kN", "Qk_kN", "NEd_kN"]]
         for r in sub.itertuples():
-            rows.append([r.stack, r.level, r.onto, f"{r.share:.3f}", f"{r.Gk_kN:.0f}",
-                         f"{r.Qk_kN:.0f}", f"{r.NEd_kN:.0f}"])
+            rows.append(
+                [r.stack, r.level, r.onto, f"{r.share:.3f}", f"{r.Gk_kN:.0f}", f"{r.Qk_kN:.0f}", f"{r.NEd_kN:.0f}"]
+            )
         if kind != "transfer":
-            rows.append(["total", "", "", "", f"{sub['Gk_kN'].sum():.0f}",
-                         f"{sub['Qk_kN'].sum():.0f}", f"{sub['NEd_kN'].sum():.0f}"])
+            rows.append(
+                [
+                    "total",
+                    "",
+                    "",
+                    "",
+                    f"{sub['Gk_kN'].sum():.0f}",
+                    f"{sub['Qk_kN'].sum():.0f}",
+                    f"{sub['NEd_kN'].sum():.0f}",
+                ]
+            )
         lines += _table(rows) + [""]
     if result.warnings:
         lines += ["Warnings:"] + [f"- {w}" for w in result.warnings] + [""]
@@ -110,9 +137,11 @@ def _execute(args: argparse.Namespace, err: TextIO) -> list[Path]:
         write_actions_csv(actions, tmp / "actions.csv")
         names.append("actions.csv")
         if result is not None:
-            for name, df in (("takedown_detail.csv", result.detail),
-                             ("reactions.csv", result.reactions),
-                             ("level_totals.csv", result.level_totals)):
+            for name, df in (
+                ("takedown_detail.csv", result.detail),
+                ("reactions.csv", result.reactions),
+                ("level_totals.csv", result.level_totals),
+            ):
                 df.to_csv(tmp / name, index=False, float_format="%.3f", lineterminator="\n")
                 names.append(name)
             if not args.no_plans:

@@ -29,11 +29,14 @@ def pinned_cell_type(feas: Feasibility, scenario: Scenario, pin: tuple) -> tuple
     cell = scenario.cell((stack, level))
     fck = parse_concrete_class(grade) if grade else cell.settings.fck_MPa
     for k, t in enumerate(feas.catalogue.types):
-        if (t.section_key == section and t.design.section.bars.notation == bars
-                and t.design.concrete.fck == fck):
+        if t.section_key == section and t.design.section.bars.notation == bars and t.design.concrete.fck == fck:
             return cell.index, k
-    raise InputError(scenario.source, "rules.pinned", f"{stack} at {level}: {section} {bars}",
-                     "a section and bars of the catalogue at the cell's grade (see catalogue.csv)")
+    raise InputError(
+        scenario.source,
+        "rules.pinned",
+        f"{stack} at {level}: {section} {bars}",
+        "a section and bars of the catalogue at the cell's grade (see catalogue.csv)",
+    )
 
 
 def to_problem(feas: Feasibility, scenario: Scenario, run: RunSettings) -> ScheduleProblem:
@@ -47,8 +50,16 @@ def to_problem(feas: Feasibility, scenario: Scenario, run: RunSettings) -> Sched
     sec_ids: dict[str, int] = {}
     section = np.array([sec_ids.setdefault(t.section_key, len(sec_ids)) for t in feas.catalogue.types])
     types = TypeTable(
-        mark=tuple(t.mark for t in feas.catalogue.types), circ=ta["circ"], b=ta["b"], h=ta["h"], nb=ta["nb"],
-        nh=ta["nh"], dia=ta["dia"], corner_dia=ta["corner_dia"], fck=ta["fck"], section=section,
+        mark=tuple(t.mark for t in feas.catalogue.types),
+        circ=ta["circ"],
+        b=ta["b"],
+        h=ta["h"],
+        nb=ta["nb"],
+        nh=ta["nh"],
+        dia=ta["dia"],
+        corner_dia=ta["corner_dia"],
+        fck=ta["fck"],
+        section=section,
         starter_kg_per_m=ta["As"] * 1e-6 * STEEL_DENSITY,
     )
     cost, carbon = candidate_cost_carbon(feas, run.costs)
@@ -57,11 +68,20 @@ def to_problem(feas: Feasibility, scenario: Scenario, run: RunSettings) -> Sched
     if run.pinned:
         rules = dataclasses.replace(rules, pinned=tuple(pinned_cell_type(feas, scenario, p) for p in run.pinned))
     return ScheduleProblem(
-        cell_names=feas.cells.cells, stack_names=stack_ids,
-        stack=np.array([stack_of[c.stack] for c in scenario.cells]), above=above,
+        cell_names=feas.cells.cells,
+        stack_names=stack_ids,
+        stack=np.array([stack_of[c.stack] for c in scenario.cells]),
+        above=above,
         stack_free=np.array([s.orientation is Orientation.FREE for s in scenario.stacks]),
-        types=types, cand_cell=feas.cand_cell, cand_type=feas.cand_type, cand_orient=feas.cand_orient,
-        steel_kg=feas.steel_kg, cost=np.nan_to_num(cost, nan=0.0), carbon=carbon, utilisation=feas.utilisation,
-        rules=rules, objective=run.objective,
+        types=types,
+        cand_cell=feas.cand_cell,
+        cand_type=feas.cand_type,
+        cand_orient=feas.cand_orient,
+        steel_kg=feas.steel_kg,
+        cost=np.nan_to_num(cost, nan=0.0),
+        carbon=carbon,
+        utilisation=feas.utilisation,
+        rules=rules,
+        objective=run.objective,
         storey_height_mm=feas.cells.height,
     )

@@ -107,9 +107,15 @@ def _file_hash(path: str) -> str:
     return h.hexdigest()[:16]
 
 
-def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit_s: float | None = None,
-                 solver: str | None = None, max_types: int | None = None, label: str = "",
-                 formulation: str | None = None) -> RunResult:
+def run_scenario(  # noqa: PLR0915 - the stages of the main job in order
+    path: str | Scenario,
+    progress: Stage | None = None,
+    time_limit_s: float | None = None,
+    solver: str | None = None,
+    max_types: int | None = None,
+    label: str = "",
+    formulation: str | None = None,
+) -> RunResult:
     """Run the main job on the scenario at ``path`` (or on a Scenario object, e.g. a variant).
 
     Raises:
@@ -147,8 +153,12 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
         from optimizer.candidates.feasibility import undesignable_lines
 
         lines = undesignable_lines(fe)
-        raise DesignImpossible(f"{len(lines)} cell(s) no catalogue type can carry; first: {lines[0]}",
-                               details=lines, feasibility=fe, catalogue=cat)
+        raise DesignImpossible(
+            f"{len(lines)} cell(s) no catalogue type can carry; first: {lines[0]}",
+            details=lines,
+            feasibility=fe,
+            catalogue=cat,
+        )
 
     t = time.perf_counter()
     problem = to_problem(fe, scenario, settings)
@@ -158,19 +168,34 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
 
         why = applicable(problem)
         if why is not None:
-            raise InputError(path, "--formulation" if formulation else "optimizer.formulation", "paths",
-                             f"'auto' or 'compact' for this scenario: {why}")
-    schedule = optimise(problem, solver or opts.solver, time_limit_s or opts.time_limit_s, opts.gap_rel, max_types,
-                        progress=lambda msg: say(f"integer program: {msg}", 0, 0),
-                        formulation=formulation or opts.formulation)
+            raise InputError(
+                path,
+                "--formulation" if formulation else "optimizer.formulation",
+                "paths",
+                f"'auto' or 'compact' for this scenario: {why}",
+            )
+    schedule = optimise(
+        problem,
+        solver or opts.solver,
+        time_limit_s or opts.time_limit_s,
+        opts.gap_rel,
+        max_types,
+        progress=lambda msg: say(f"integer program: {msg}", 0, 0),
+        formulation=formulation or opts.formulation,
+    )
     timings["optimise"] = time.perf_counter() - t
     if schedule.cand is None or len(schedule.cand) == 0 or np.any(np.asarray(schedule.cand) < 0):
         why = diagnose.diagnose(problem)
         if why:
-            raise DesignImpossible(f"no schedule satisfies the rules: {why[0]}", details=list(why), feasibility=fe,
-                                   catalogue=cat)
-        raise DesignImpossible(f"the solver found no schedule within its limits ({schedule.status}); best bound "
-                               f"{schedule.bound:.6g}", details=list(schedule.notes), feasibility=fe, catalogue=cat)
+            raise DesignImpossible(
+                f"no schedule satisfies the rules: {why[0]}", details=list(why), feasibility=fe, catalogue=cat
+            )
+        raise DesignImpossible(
+            f"the solver found no schedule within its limits ({schedule.status}); best bound {schedule.bound:.6g}",
+            details=list(schedule.notes),
+            feasibility=fe,
+            catalogue=cat,
+        )
     lb, premium = lower_bound_premium(problem, schedule)
     base = heuristic.baseline(problem)
 
@@ -194,15 +219,22 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
     if unverified.size:
         names = ", ".join(f"{fe.cells.cells[i][0]}@{fe.cells.cells[i][1]}" for i in unverified[:8])
         more = f" and {unverified.size - 8} more" if unverified.size > 8 else ""
-        warnings.append(f"fire resistance not verified by EN 1992-1-2 5.3.2 method A in {unverified.size} cell(s) "
-                        f"(outside its conditions of use; verify by another method): {names}{more}")
+        warnings.append(
+            f"fire resistance not verified by EN 1992-1-2 5.3.2 method A in {unverified.size} cell(s) "
+            f"(outside its conditions of use; verify by another method): {names}{more}"
+        )
     warnings += crank_warnings(problem, fe, cand)
     if schedule.status not in (Status.OPTIMAL, Status.WITHIN_GAP):
-        warnings.append(f"solver stopped with status '{schedule.status}': proven gap {100 * schedule.gap:.2f} % "
-                        f"(requested {100 * opts.gap_rel:g} %)")
+        warnings.append(
+            f"solver stopped with status '{schedule.status}': proven gap {100 * schedule.gap:.2f} % "
+            f"(requested {100 * opts.gap_rel:g} %)"
+        )
     # the takedown states lateral stability too; the run's own sentence covers both routes, once
-    notes = [n for n in td.notes if not n.startswith("Lateral stability")] if td is not None \
+    notes = (
+        [n for n in td.notes if not n.startswith("Lateral stability")]
+        if td is not None
         else ["actions from an analysis (CSV route)"]
+    )
     ratio_known = bool(np.all(np.isfinite(fe.cells.M0Eqp_ratio)))
     notes += [
         "Lateral stability is assumed to be provided by the cores: every column is checked as braced "
@@ -213,9 +245,13 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
         "moment, 10 where it changes sign, linear between (5.8.8.2(4)).",
         f"Creep: phi_ef = phi(inf, t0) M0Eqp/M0Ed per cell and section (EN 1992-1-1 5.8.4, Eq. (5.19)), "
         f"phi(inf, t0) by Annex B with {scenario.creep.describe()}"
-        + ("" if scenario.creep_given else " (defaults: give [creep] to change them)") + "; M0Eqp/M0Ed "
-        + ("from the quasi-permanent combination Gk + psi2 Qk of the takedown"
-           if ratio_known else "taken as 1.0 (upper bound) where the actions do not give it")
+        + ("" if scenario.creep_given else " (defaults: give [creep] to change them)")
+        + "; M0Eqp/M0Ed "
+        + (
+            "from the quasi-permanent combination Gk + psi2 Qk of the takedown"
+            if ratio_known
+            else "taken as 1.0 (upper bound) where the actions do not give it"
+        )
         + "; non-linear creep (Eq. (3.7)) where the quasi-permanent stress exceeds 0.45 fck.",
         "Shear from the end moments, VEd = (|Mtop| + |Mbot|)/l, against VRd,c or the links (EN 1992-1-1 6.2); "
         "lap zone: bars below plus bars above <= 0.08 Ac (9.5.2(3)), checked on the schedule.",
@@ -226,15 +262,31 @@ def run_scenario(path: str | Scenario, progress: Stage | None = None, time_limit
         f"Nominal cover: {cat.cover_note}.",
     ]
     return RunResult(
-        scenario=scenario, scenario_path=str(path), settings=settings, actions=actions, takedown=td, catalogue=cat,
-        feasibility=fe, problem=problem, schedule=schedule, chosen_cand=cand, chosen_type=chosen_type,
-        chosen_orient=chosen_orient, checks=checks, types_used=_marks(cat, chosen_type), lower_bound=lb,
-        premium=premium, baseline=base, timings_s=timings, warnings=warnings, notes=notes,
+        scenario=scenario,
+        scenario_path=str(path),
+        settings=settings,
+        actions=actions,
+        takedown=td,
+        catalogue=cat,
+        feasibility=fe,
+        problem=problem,
+        schedule=schedule,
+        chosen_cand=cand,
+        chosen_type=chosen_type,
+        chosen_orient=chosen_orient,
+        checks=checks,
+        types_used=_marks(cat, chosen_type),
+        lower_bound=lb,
+        premium=premium,
+        baseline=base,
+        timings_s=timings,
+        warnings=warnings,
+        notes=notes,
         scenario_hash=_file_hash(path) + (f"+{label}" if label else ""),
     )
 
 
-def _solve_child(conn, problem, solver, time_limit_s, gap_rel, max_types, warm):  # noqa: ANN001
+def _solve_child(conn, problem, solver, time_limit_s, gap_rel, max_types, warm):
     """Child process: the integer program, with its result sent back through ``conn``."""
     import os
 
@@ -244,16 +296,29 @@ def _solve_child(conn, problem, solver, time_limit_s, gap_rel, max_types, warm):
     os.dup2(devnull, 1)  # the solver library prints a banner on stdout; the user's terminal is the parent's
 
     try:
-        conn.send(solve(problem, SolveOptions(solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel,
-                                              formulation="compact"), max_types=max_types, warm_start=warm))
-    except Exception as exc:  # noqa: BLE001 - reported to the parent as a note
+        conn.send(
+            solve(
+                problem,
+                SolveOptions(solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel, formulation="compact"),
+                max_types=max_types,
+                warm_start=warm,
+            )
+        )
+    except Exception as exc:
         conn.send(exc)
     finally:
         conn.close()
 
 
-def optimise(problem: ScheduleProblem, solver: str, time_limit_s: float, gap_rel: float, max_types: int | None,
-             progress: Callable[[str], None] | None = None, formulation: str = "auto") -> Schedule:
+def optimise(
+    problem: ScheduleProblem,
+    solver: str,
+    time_limit_s: float,
+    gap_rel: float,
+    max_types: int | None,
+    progress: Callable[[str], None] | None = None,
+    formulation: str = "auto",
+) -> Schedule:
     """The schedule within a hard time limit.
 
     Without a cap or a price on types the stacks are independent and the exact
@@ -282,13 +347,21 @@ def optimise(problem: ScheduleProblem, solver: str, time_limit_s: float, gap_rel
     r = problem.rules
     cap = max_types if max_types is not None else r.max_types
     if not (r.couples_stacks or max_types is not None):
-        return solve(problem, SolveOptions(solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel),
-                     max_types=max_types, progress=say)
+        return solve(
+            problem,
+            SolveOptions(solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel),
+            max_types=max_types,
+            progress=say,
+        )
     if formulation != "compact":
         why = applicable(problem)
         if why is None:  # the same route as solve: greedy start under caps, then column generation
-            return solve(problem, SolveOptions(solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel,
-                                               formulation="paths"), max_types=max_types, progress=say)
+            return solve(
+                problem,
+                SolveOptions(solver=solver, time_limit_s=time_limit_s, gap_rel=gap_rel, formulation="paths"),
+                max_types=max_types,
+                progress=say,
+            )
         if formulation == "paths":
             raise ValueError(f"the path formulation does not apply: {why}")
         say(f"compact formulation: {why}")
@@ -302,8 +375,9 @@ def optimise(problem: ScheduleProblem, solver: str, time_limit_s: float, gap_rel
     if remaining > 5.0:
         ctx = mp.get_context("spawn")
         parent, child = ctx.Pipe(duplex=False)
-        proc = ctx.Process(target=_solve_child, args=(child, problem, solver, 0.7 * remaining, gap_rel, max_types,
-                                                      warm), daemon=True)
+        proc = ctx.Process(
+            target=_solve_child, args=(child, problem, solver, 0.7 * remaining, gap_rel, max_types, warm), daemon=True
+        )
         proc.start()
         child.close()
         if parent.poll(remaining):
@@ -319,20 +393,38 @@ def optimise(problem: ScheduleProblem, solver: str, time_limit_s: float, gap_rel
         if warm is None or best.objective <= heuristic.figures(problem, warm.cand).objective + 1e-9:
             return best
     if warm is None:
-        return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=Status.NO_SCHEDULE, objective=np.inf,
-                        bound=lb, gap=np.inf, solver=f"{solver} (stopped)", seconds=time.perf_counter() - t0)
+        return Schedule(
+            cand=np.full(problem.n_cells, -1, dtype=int),
+            status=Status.NO_SCHEDULE,
+            objective=np.inf,
+            bound=lb,
+            gap=np.inf,
+            solver=f"{solver} (stopped)",
+            seconds=time.perf_counter() - t0,
+        )
     obj = heuristic.figures(problem, warm.cand).objective
     bound = max(lb, best.bound if best is not None and np.isfinite(best.bound) else -np.inf)
     gap = max(0.0, (obj - bound) / max(abs(obj), 1e-9))
-    return Schedule(cand=np.asarray(warm.cand), status=Status.OPTIMAL if gap <= 1e-9 else Status.TIME_LIMIT,
-                    objective=obj, bound=bound, gap=gap,
-                    solver=f"greedy rationalisation; {solver} integer program within {time_limit_s:g} s did not "
-                    "improve it", seconds=time.perf_counter() - t0,
-                    notes=("bound: cell-wise lower bound or the solver's, whichever is higher",))
+    return Schedule(
+        cand=np.asarray(warm.cand),
+        status=Status.OPTIMAL if gap <= 1e-9 else Status.TIME_LIMIT,
+        objective=obj,
+        bound=bound,
+        gap=gap,
+        solver=f"greedy rationalisation; {solver} integer program within {time_limit_s:g} s did not improve it",
+        seconds=time.perf_counter() - t0,
+        notes=("bound: cell-wise lower bound or the solver's, whichever is higher",),
+    )
 
 
-def recheck(scenario: Scenario, cat: Catalogue, fe: Feasibility, chosen_type: np.ndarray, chosen_orient: np.ndarray,
-            settings: RunSettings) -> MemberChecks:
+def recheck(
+    scenario: Scenario,
+    cat: Catalogue,
+    fe: Feasibility,
+    chosen_type: np.ndarray,
+    chosen_orient: np.ndarray,
+    settings: RunSettings,
+) -> MemberChecks:
     """Exact member check (exact MRd, direction-exact biaxial reported) of the chosen type in every cell.
 
     One row per cell, in cell order. Cells are grouped by (exposure, fire, orientation) and checked
@@ -379,10 +471,12 @@ def crank_warnings(problem, fe: Feasibility, cand: np.ndarray) -> list[str]:
         need = CRANK_SLOPE * offset
         if offset > 0 and need > fe.cells.l_clear[lo] and step <= problem.rules.max_step_mm:
             stack, level = fe.cells.cells[lo]
-            out.append(f"{stack} above {level}: a step of {offset:g} mm per face needs bars cranked over "
-                       f"{need:,.0f} mm at 1 in 12 (EN 1992-1-1 9.5.3(5)), more than the clear height "
-                       f"{fe.cells.l_clear[lo]:,.0f} mm below; use separate starter bars or links for the "
-                       "lateral force")
+            out.append(
+                f"{stack} above {level}: a step of {offset:g} mm per face needs bars cranked over "
+                f"{need:,.0f} mm at 1 in 12 (EN 1992-1-1 9.5.3(5)), more than the clear height "
+                f"{fe.cells.l_clear[lo]:,.0f} mm below; use separate starter bars or links for the "
+                "lateral force"
+            )
     return out
 
 
@@ -415,8 +509,9 @@ def _merge(parts: list[tuple[np.ndarray, MemberChecks]], n: int) -> MemberChecks
             demand[cc], capacity[cc], applicable[cc] = c.demand, c.capacity, c.applicable
             for j, i in enumerate(cc):
                 notes[i] = c.result(j).note
-        cols.append(CheckColumn(name, clause, unit, demand, capacity, applicable, np.array(notes, dtype=object),
-                                blocking, kind))
+        cols.append(
+            CheckColumn(name, clause, unit, demand, capacity, applicable, np.array(notes, dtype=object), blocking, kind)
+        )
     values: dict[str, np.ndarray] = {}
     for key in parts[0][1].values:
         sample = parts[0][1].values[key]
@@ -432,9 +527,14 @@ def _merge(parts: list[tuple[np.ndarray, MemberChecks]], n: int) -> MemberChecks
 
 def _marks(cat: Catalogue, chosen_type: np.ndarray) -> list[TypeUse]:
     """Schedule marks C1, C2, ... ordered by plan area, then steel, then grade (a larger number is heavier)."""
-    used = sorted(set(int(t) for t in chosen_type),
-                  key=lambda t: (cat.types[t].design.section.Ac, cat.types[t].design.section.As,
-                                 cat.types[t].design.concrete.fck))
+    used = sorted(
+        set(int(t) for t in chosen_type),
+        key=lambda t: (
+            cat.types[t].design.section.Ac,
+            cat.types[t].design.section.As,
+            cat.types[t].design.concrete.fck,
+        ),
+    )
     width = len(str(len(used)))
     out = []
     for k, t in enumerate(used, start=1):

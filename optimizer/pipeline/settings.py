@@ -21,14 +21,12 @@ from dataclasses import dataclass
 from optimizer.building.model import Scenario
 from optimizer.building.tables import MISSING, TomlTable
 from optimizer.candidates.catalogue import reject_unknown
-from optimizer.candidates.costs import (
-    DEFAULT_CARBON_CONCRETE,
-    CostFactors,
-)
+from optimizer.candidates.costs import DEFAULT_CARBON_CONCRETE, CostFactors
 from optimizer.errors import InputError
 from optimizer.schedule.problem import Objective, Rules, StepRule
 
 __all__ = ["CostFactors", "SolverOptions", "RunSettings", "read_run_settings", "DEFAULT_CARBON_CONCRETE"]
+
 
 @dataclass(frozen=True)
 class SolverOptions:
@@ -72,7 +70,7 @@ def _grade_table(t: TomlTable, key: str) -> dict[float, float] | None:
     return out
 
 
-def read_run_settings(scenario: Scenario) -> RunSettings:
+def read_run_settings(scenario: Scenario) -> RunSettings:  # noqa: PLR0912, PLR0915 - reads and validates three input tables, one branch per key
     """Rules, objective, solver options and rates from the scenario (defaults where absent)."""
     res = scenario.reserved
     src = scenario.source
@@ -127,10 +125,26 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
             if fr not in ("fail", "flag"):
                 raise InputError(src, "rules.fire_outside_method", fr, "'fail' or 'flag'")
             fire_rule = fr
-        reject_unknown(t, {"monotone_sections", "monotone_bars", "monotone_grade", "max_step_mm", "step_rule",
-                           "min_run", "max_types", "max_sections", "max_grades", "max_grade_changes", "price_per_type",
-                           "price_per_section", "groups",
-                           "pinned", "fire_outside_method"})
+        reject_unknown(
+            t,
+            {
+                "monotone_sections",
+                "monotone_bars",
+                "monotone_grade",
+                "max_step_mm",
+                "step_rule",
+                "min_run",
+                "max_types",
+                "max_sections",
+                "max_grades",
+                "max_grade_changes",
+                "price_per_type",
+                "price_per_section",
+                "groups",
+                "pinned",
+                "fire_outside_method",
+            },
+        )
     objective = Objective.STEEL
     solver = SolverOptions()
     if "optimizer" in res:
@@ -164,8 +178,18 @@ def read_run_settings(scenario: Scenario) -> RunSettings:
         cur = t.str_("currency", required=False)
         if cur is not None:
             kw["currency"] = cur
-        reject_unknown(t, {"steel_per_t", "concrete_per_m3", "formwork_per_m2", "plan_area_per_m2", "currency",
-                           "steel_carbon_per_kg", "concrete_carbon_per_kg"})
+        reject_unknown(
+            t,
+            {
+                "steel_per_t",
+                "concrete_per_m3",
+                "formwork_per_m2",
+                "plan_area_per_m2",
+                "currency",
+                "steel_carbon_per_kg",
+                "concrete_carbon_per_kg",
+            },
+        )
         costs = CostFactors(**kw)
     if objective is Objective.COST and not costs.has_cost:
         raise InputError(src, "costs.steel_per_t", None, "needed for objective = 'cost' (no default money rates)")
@@ -178,8 +202,12 @@ def _read_pinned(scenario: Scenario, t: TomlTable) -> tuple:
     if raw is MISSING:
         return ()
     if not isinstance(raw, list):
-        raise InputError(t.file, t.key("pinned"), raw,
-                         'a list of tables {stack = "A1", level = "L01", section = "600x600", bars = "12H25"}')
+        raise InputError(
+            t.file,
+            t.key("pinned"),
+            raw,
+            'a list of tables {stack = "A1", level = "L01", section = "600x600", bars = "12H25"}',
+        )
     out = []
     for i, item in enumerate(raw):
         key = f"{t.key('pinned')}[{i}]"
@@ -190,6 +218,13 @@ def _read_pinned(scenario: Scenario, t: TomlTable) -> tuple:
             raise InputError(t.file, f"{key}.{sorted(extra)[0]}", item[sorted(extra)[0]], "unknown key")
         if not scenario.has_cell((str(item["stack"]), str(item["level"]))):
             raise InputError(t.file, key, f"{item['stack']} at {item['level']}", "a cell of the scenario")
-        out.append((str(item["stack"]), str(item["level"]), str(item["section"]).replace(" ", ""),
-                    str(item["bars"]).replace(" ", ""), str(item["grade"]) if "grade" in item else None))
+        out.append(
+            (
+                str(item["stack"]),
+                str(item["level"]),
+                str(item["section"]).replace(" ", ""),
+                str(item["bars"]).replace(" ", ""),
+                str(item["grade"]) if "grade" in item else None,
+            )
+        )
     return tuple(out)

@@ -27,8 +27,16 @@ from optimizer import CAUTION, __version__
 from optimizer.errors import InputError
 from optimizer.pipeline.run import RunResult
 
-__all__ = ["frames", "write_outputs", "atomic_folder", "schedule_frame", "cells_frame", "types_frame",
-           "quantities_frame", "summary_dict"]
+__all__ = [
+    "frames",
+    "write_outputs",
+    "atomic_folder",
+    "schedule_frame",
+    "cells_frame",
+    "types_frame",
+    "quantities_frame",
+    "summary_dict",
+]
 
 
 def schedule_frame(r: RunResult) -> pd.DataFrame:
@@ -74,23 +82,39 @@ def cells_frame(r: RunResult) -> pd.DataFrame:
         k = r.chosen_cand[i]
         check = r.checks.checks[int(gov[i])]
         res = r.checks.checks[int(gov_res[i])]
-        rows.append({
-            "stack": stack, "level": level,
-            "NEd_kN": round(float(v["NEd"][i]) / 1e3, 1),
-            "MEdy_kNm": round(float(v["MEdy"][i]) / 1e6, 1), "MEdz_kNm": round(float(v["MEdz"][i]) / 1e6, 1),
-            "MRdy_kNm": round(float(v["MRdy"][i]) / 1e6, 1), "MRdz_kNm": round(float(v["MRdz"][i]) / 1e6, 1),
-            "l0y_mm": round(float(v["l0y"][i])), "l0z_mm": round(float(v["l0z"][i])),
-            "lambda_y": round(float(v["lambda_y"][i]), 1), "lambda_z": round(float(v["lambda_z"][i]), 1),
-            "n": round(float(v["n"][i]), 3), "phi_ef": round(float(v["phi_ef"][i]), 2),
-            "type": r.mark_of(i), "section": ct.section_key, "bars": ct.design.section.bars.notation,
-            "links": _links_text(r, t), "grade": ct.design.concrete.name,
-            "orientation": "turned 90 deg" if r.chosen_orient[i] else "as given",
-            "utilisation": round(float(util[i]), 3), "governing": check.name, "clause": check.clause,
-            "utilisation_resistance": round(float(util_res[i]), 3), "governing_resistance": res.name,
-            "fire_verified": not bool(unverified[i]),
-            "steel_kg": round(float(fe.steel_kg[k]), 2), "main_bars_kg": round(float(fe.main_kg[k]), 2),
-            "lap_kg": round(float(fe.lap_kg[k]), 2), "links_kg": round(float(fe.link_kg[k]), 2),
-        })
+        rows.append(
+            {
+                "stack": stack,
+                "level": level,
+                "NEd_kN": round(float(v["NEd"][i]) / 1e3, 1),
+                "MEdy_kNm": round(float(v["MEdy"][i]) / 1e6, 1),
+                "MEdz_kNm": round(float(v["MEdz"][i]) / 1e6, 1),
+                "MRdy_kNm": round(float(v["MRdy"][i]) / 1e6, 1),
+                "MRdz_kNm": round(float(v["MRdz"][i]) / 1e6, 1),
+                "l0y_mm": round(float(v["l0y"][i])),
+                "l0z_mm": round(float(v["l0z"][i])),
+                "lambda_y": round(float(v["lambda_y"][i]), 1),
+                "lambda_z": round(float(v["lambda_z"][i]), 1),
+                "n": round(float(v["n"][i]), 3),
+                "phi_ef": round(float(v["phi_ef"][i]), 2),
+                "type": r.mark_of(i),
+                "section": ct.section_key,
+                "bars": ct.design.section.bars.notation,
+                "links": _links_text(r, t),
+                "grade": ct.design.concrete.name,
+                "orientation": "turned 90 deg" if r.chosen_orient[i] else "as given",
+                "utilisation": round(float(util[i]), 3),
+                "governing": check.name,
+                "clause": check.clause,
+                "utilisation_resistance": round(float(util_res[i]), 3),
+                "governing_resistance": res.name,
+                "fire_verified": not bool(unverified[i]),
+                "steel_kg": round(float(fe.steel_kg[k]), 2),
+                "main_bars_kg": round(float(fe.main_kg[k]), 2),
+                "lap_kg": round(float(fe.lap_kg[k]), 2),
+                "links_kg": round(float(fe.link_kg[k]), 2),
+            }
+        )
     return pd.DataFrame(rows)
 
 
@@ -104,18 +128,28 @@ def types_frame(r: RunResult) -> pd.DataFrame:
         stacks = sorted({sc.cells[i].stack for i in u.cells})
         levels = sorted({sc.cells[i].level_index for i in u.cells})
         circ = isinstance(s, CircSection)
-        rows.append({
-            "mark": u.mark, "shape": ct.shape.value, "b_mm": s.b if not circ else np.nan,
-            "h_mm": s.h if not circ else np.nan, "diameter_mm": s.diameter if circ else np.nan,
-            "bars": s.bars.notation, "As_mm2": round(s.As, 0), "rho_percent": round(100 * s.As / s.Ac, 2),
-            "links": _links_text(r, u.type_index),
-            # 9.5.3(6): extra ties so that every bar is within 150 mm of a restrained bar (their steel is
-            # counted with the links)
-            "cross_ties": int(extra_ties(s)), "cover_mm": s.cover, "grade": ct.design.concrete.name,
-            "cells": len(u.cells), "stacks": " ".join(stacks),
-            "levels": f"{sc.levels[levels[0]].name} to {sc.levels[levels[-1]].name}",
-            "catalogue_type": ct.mark,
-        })
+        rows.append(
+            {
+                "mark": u.mark,
+                "shape": ct.shape.value,
+                "b_mm": s.b if not circ else np.nan,
+                "h_mm": s.h if not circ else np.nan,
+                "diameter_mm": s.diameter if circ else np.nan,
+                "bars": s.bars.notation,
+                "As_mm2": round(s.As, 0),
+                "rho_percent": round(100 * s.As / s.Ac, 2),
+                "links": _links_text(r, u.type_index),
+                # 9.5.3(6): extra ties so that every bar is within 150 mm of a restrained bar (their steel is
+                # counted with the links)
+                "cross_ties": int(extra_ties(s)),
+                "cover_mm": s.cover,
+                "grade": ct.design.concrete.name,
+                "cells": len(u.cells),
+                "stacks": " ".join(stacks),
+                "levels": f"{sc.levels[levels[0]].name} to {sc.levels[levels[-1]].name}",
+                "catalogue_type": ct.mark,
+            }
+        )
     return pd.DataFrame(rows)
 
 
@@ -168,8 +202,12 @@ def quantities_frame(r: RunResult) -> pd.DataFrame:
     add("column plan area", "all levels", tot["plan_area_m2"], "m2")
     if r.settings.costs.has_cost:
         add("cost", "columns (steel, concrete, formwork, floor area)", tot["cost"], r.settings.costs.currency)
-    add("embodied carbon (A1-A3)", f"steel and concrete ({r.settings.costs.carbon_source})", tot["carbon_tCO2e"],
-        "tCO2e")
+    add(
+        "embodied carbon (A1-A3)",
+        f"steel and concrete ({r.settings.costs.carbon_source})",
+        tot["carbon_tCO2e"],
+        "tCO2e",
+    )
     return pd.DataFrame(rows, columns=["group", "item", "quantity", "unit"])
 
 
@@ -198,18 +236,34 @@ def summary_dict(r: RunResult) -> dict:
         "scenario": r.scenario_path,
         "scenario_sha256_16": r.scenario_hash,
         "versions": {"colstack": __version__, "pulp": pulp.__version__, "highspy": highs_version},
-        "parameters": {"name": r.scenario.params.name,
-                       **{k: v for k, v in vars(r.scenario.params).items() if k != "name"}},
+        "parameters": {
+            "name": r.scenario.params.name,
+            **{k: v for k, v in vars(r.scenario.params).items() if k != "name"},
+        },
         "objective": r.settings.objective.value,
-        "cells": len(r.feasibility.cells), "catalogue_types": len(r.catalogue),
-        "types_used": len(r.types_used), "sections_used": len(sections),
-        "steel_t": tot["steel_t"], "concrete_m3": tot["concrete_m3"], "formwork_m2": tot["formwork_m2"],
-        "plan_area_m2": tot["plan_area_m2"], "cost": None if np.isnan(tot["cost"]) else tot["cost"],
+        "cells": len(r.feasibility.cells),
+        "catalogue_types": len(r.catalogue),
+        "types_used": len(r.types_used),
+        "sections_used": len(sections),
+        "steel_t": tot["steel_t"],
+        "concrete_m3": tot["concrete_m3"],
+        "formwork_m2": tot["formwork_m2"],
+        "plan_area_m2": tot["plan_area_m2"],
+        "cost": None if np.isnan(tot["cost"]) else tot["cost"],
         "carbon_tCO2e": tot["carbon_tCO2e"],
-        "lower_bound": r.lower_bound, "premium": r.premium,
-        "solver": {"name": s.solver, "status": s.status, "objective": s.objective, "bound": s.bound, "gap": s.gap,
-                   "seconds": s.seconds, "time_limit_s": r.settings.solver.time_limit_s,
-                   "gap_target": r.settings.solver.gap_rel, "notes": list(s.notes)},
+        "lower_bound": r.lower_bound,
+        "premium": r.premium,
+        "solver": {
+            "name": s.solver,
+            "status": s.status,
+            "objective": s.objective,
+            "bound": s.bound,
+            "gap": s.gap,
+            "seconds": s.seconds,
+            "time_limit_s": r.settings.solver.time_limit_s,
+            "gap_target": r.settings.solver.gap_rel,
+            "notes": list(s.notes),
+        },
         "baseline": base,
         "max_utilisation": float(np.max(r.checks.utilisation)),
         "max_resistance_utilisation": float(np.max(r.checks.resistance_utilisation)),
@@ -221,8 +275,12 @@ def summary_dict(r: RunResult) -> dict:
 
 def frames(r: RunResult) -> dict[str, pd.DataFrame]:
     """All tables of a run, by file stem."""
-    return {"schedule": schedule_frame(r), "cells": cells_frame(r), "types": types_frame(r),
-            "quantities": quantities_frame(r)}
+    return {
+        "schedule": schedule_frame(r),
+        "cells": cells_frame(r),
+        "types": types_frame(r),
+        "quantities": quantities_frame(r),
+    }
 
 
 @contextmanager
@@ -264,14 +322,15 @@ def write_outputs(r: RunResult, out: Path, extras: list[Callable[[RunResult, dic
     with atomic_folder(out, protect=[scenario_dir]) as tmp:
         for name, df in tables.items():
             df.to_csv(tmp / f"{name}.csv", index=False)
-        (tmp / "summary.json").write_text(json.dumps(summary_dict(r), indent=2, default=_json_default),
-                                          encoding="utf-8")
+        (tmp / "summary.json").write_text(
+            json.dumps(summary_dict(r), indent=2, default=_json_default), encoding="utf-8"
+        )
         for extra in extras:
             extra(r, tables, tmp)
     return Path(out)
 
 
-def _json_default(x):  # noqa: ANN001, ANN202
+def _json_default(x):
     if isinstance(x, (np.integer,)):
         return int(x)
     if isinstance(x, (np.floating,)):

@@ -16,18 +16,25 @@ import matplotlib
 
 matplotlib.use("Agg")
 
-import matplotlib.pyplot as plt  # noqa: E402
-import numpy as np  # noqa: E402
-import pandas as pd  # noqa: E402
-from matplotlib.colors import LinearSegmentedColormap, to_rgb  # noqa: E402
-from matplotlib.patches import Rectangle  # noqa: E402
+import matplotlib.pyplot as plt
+import numpy as np
+import pandas as pd
+from matplotlib.colors import LinearSegmentedColormap, to_rgb
+from matplotlib.patches import Rectangle
 
-from design.resistance import SectionBatch  # noqa: E402
-from optimizer import CAUTION  # noqa: E402
-from optimizer.pipeline.run import RunResult  # noqa: E402
+from design.resistance import SectionBatch
+from optimizer import CAUTION
+from optimizer.pipeline.run import RunResult
 
-__all__ = ["type_colours", "text_colour", "elevation_figure", "type_curves_figure", "pareto_figure",
-           "figure_bytes", "write_pictures"]
+__all__ = [
+    "type_colours",
+    "text_colour",
+    "elevation_figure",
+    "type_curves_figure",
+    "pareto_figure",
+    "figure_bytes",
+    "write_pictures",
+]
 
 # Own ramp: pale sand -> sage -> slate teal -> deep ink blue.
 _RAMP = LinearSegmentedColormap.from_list("colstack_weight", ["#f3ead3", "#b9cfa4", "#5f9c92", "#2f5d7c", "#1b2a4a"])
@@ -60,7 +67,7 @@ def _type_label(r: RunResult, type_index: int) -> str:
     return f"{ct.section_key} {ct.design.section.bars.notation} {ct.design.concrete.name}"
 
 
-def elevation_figure(r: RunResult) -> plt.Figure:
+def elevation_figure(r: RunResult) -> plt.Figure:  # noqa: PLR0915 - one drawing, element by element
     """All stacks side by side (scenario order), levels bottom to top; cell = mark and utilisation."""
     sc = r.scenario
     stacks = [s.id for s in sc.stacks]
@@ -90,17 +97,39 @@ def elevation_figure(r: RunResult) -> plt.Figure:
         x, y = col[stack], row[level]
         mark = r.mark_of(i)
         fill = colours[mark]
-        ax.add_patch(Rectangle((x + 0.04, y + 0.05), 0.92, 0.90, facecolor=fill,
-                               edgecolor="#b91c1c" if not ok[i] else "white", linewidth=2.0 if not ok[i] else 0.6))
+        ax.add_patch(
+            Rectangle(
+                (x + 0.04, y + 0.05),
+                0.92,
+                0.90,
+                facecolor=fill,
+                edgecolor="#b91c1c" if not ok[i] else "white",
+                linewidth=2.0 if not ok[i] else 0.6,
+            )
+        )
         tc = text_colour(fill)
         ax.text(x + 0.5, y + 0.64, mark, ha="center", va="center", fontsize=fs, color=tc, fontweight="bold")
         ax.text(x + 0.5, y + 0.30, f"{util[i]:.3f}", ha="center", va="center", fontsize=fs - 1, color=tc)
         if r.chosen_orient[i]:  # turned stack: small triangle in the top-right corner
-            ax.add_patch(plt.Polygon([(x + 0.96, y + 0.95), (x + 0.74, y + 0.95), (x + 0.96, y + 0.68)],
-                                     closed=True, facecolor=tc, edgecolor="none", alpha=0.8))
+            ax.add_patch(
+                plt.Polygon(
+                    [(x + 0.96, y + 0.95), (x + 0.74, y + 0.95), (x + 0.96, y + 0.68)],
+                    closed=True,
+                    facecolor=tc,
+                    edgecolor="none",
+                    alpha=0.8,
+                )
+            )
         if unverified[i]:  # fire not verified by method A: small open circle, bottom-left
-            ax.plot(x + 0.15, y + 0.2, marker="o", markersize=3.2, markerfacecolor="none", markeredgecolor=tc,
-                    markeredgewidth=0.8)
+            ax.plot(
+                x + 0.15,
+                y + 0.2,
+                marker="o",
+                markersize=3.2,
+                markerfacecolor="none",
+                markeredgecolor=tc,
+                markeredgewidth=0.8,
+            )
     ax.set_xlim(0, n_s)
     ax.set_ylim(0, n_l)
     ax.set_xticks(np.arange(n_s) + 0.5)
@@ -113,8 +142,15 @@ def elevation_figure(r: RunResult) -> plt.Figure:
     ax.set_xlabel("column stack", fontsize=fs + 1)
     ax.set_ylabel("level (storey below the named slab)", fontsize=fs + 1)
     status = r.schedule.status
-    fig.suptitle(f"{sc.project.name}: column types by cell (mark, utilisation); solver {status}",
-                 fontsize=11, x=left, ha="left", y=1.0 - 0.12 / fig_h, va="top", color=_INK)
+    fig.suptitle(
+        f"{sc.project.name}: column types by cell (mark, utilisation); solver {status}",
+        fontsize=11,
+        x=left,
+        ha="left",
+        y=1.0 - 0.12 / fig_h,
+        va="top",
+        color=_INK,
+    )
     fig.text(left, 0.08 / fig_h, CAUTION, fontsize=7.5, color="#92400e", ha="left", va="bottom")
 
     # legend: one swatch per type with its section, bars and grade, plus the markers
@@ -127,8 +163,17 @@ def elevation_figure(r: RunResult) -> plt.Figure:
     lax.text(0, 1.0, "types (cells)", fontsize=lfs + 1, fontweight="bold", va="top", color=_INK)
     for k, (mark, label, count) in enumerate(entries):
         yy = 1.0 - (k + 1.2) * step
-        lax.add_patch(Rectangle((0, yy - 0.35 * step), 0.12, 0.7 * step, facecolor=colours[mark],
-                                edgecolor="#888888", linewidth=0.4, transform=lax.transAxes))
+        lax.add_patch(
+            Rectangle(
+                (0, yy - 0.35 * step),
+                0.12,
+                0.7 * step,
+                facecolor=colours[mark],
+                edgecolor="#888888",
+                linewidth=0.4,
+                transform=lax.transAxes,
+            )
+        )
         lax.text(0.16, yy, f"{mark}  {label}  ({count})", fontsize=lfs, va="center", color=_INK)
     yy = 1.0 - (len(entries) + 1.6) * step
     lax.text(0, yy, "\u25e5 stack turned 90 deg", fontsize=lfs, va="center", color=_INK)
@@ -151,8 +196,16 @@ def type_curves_figure(r: RunResult, mark: str) -> plt.Figure:
         ax.fill_betweenx(N, 0, M, color="#dfe8e4", zorder=0)
         ax.plot(M, N, color=_INK, linewidth=1.4, zorder=2, label=f"MRd{axis}(N) (strain compatibility)")
         MEd = np.abs(np.asarray(v[key], dtype=float)[cells]) / 1e6
-        ax.scatter(MEd, NEd, s=28, color=colour, edgecolor="white", linewidth=0.5, zorder=3,
-                   label=f"(NEd, MEd{axis}) of {len(cells)} cell(s)")
+        ax.scatter(
+            MEd,
+            NEd,
+            s=28,
+            color=colour,
+            edgecolor="white",
+            linewidth=0.5,
+            zorder=3,
+            label=f"(NEd, MEd{axis}) of {len(cells)} cell(s)",
+        )
         ax.axhline(0, color="#999999", linewidth=0.6)
         ax.set_xlim(left=0)
         ax.set_xlabel(f"MEd{axis}, MRd{axis} (kNm)")
@@ -162,8 +215,15 @@ def type_curves_figure(r: RunResult, mark: str) -> plt.Figure:
         ax.legend(fontsize=7.5, loc="lower right", frameon=False)
     axes[0].set_ylabel("N (kN, compression positive)")
     fig.suptitle(f"Type {mark}: {_type_label(r, use.type_index)}  ({len(cells)} cells)", fontsize=11, color=_INK)
-    fig.text(0.01, 0.01, "Uniaxial curves; the biaxial interaction (EN 1992-1-1 Eq. (5.39)) is checked separately.\n"
-             + CAUTION, fontsize=6.5, color="#92400e", ha="left", va="bottom")
+    fig.text(
+        0.01,
+        0.01,
+        "Uniaxial curves; the biaxial interaction (EN 1992-1-1 Eq. (5.39)) is checked separately.\n" + CAUTION,
+        fontsize=6.5,
+        color="#92400e",
+        ha="left",
+        va="bottom",
+    )
     fig.subplots_adjust(left=0.08, right=0.98, top=0.86, bottom=0.2, wspace=0.06)
     return fig
 
@@ -187,8 +247,9 @@ def pareto_figure(r: RunResult, pareto: pd.DataFrame) -> plt.Figure:
         if np.isfinite(cost).any() and (cost.fillna(0) != 0).any():
             ax2 = ax.twinx()
             cur = r.settings.costs.currency
-            ax2.plot(df["types"], cost, marker="s", color="#7c8a3a", linewidth=1.2, linestyle=":",
-                     label=f"cost ({cur})")
+            ax2.plot(
+                df["types"], cost, marker="s", color="#7c8a3a", linewidth=1.2, linestyle=":", label=f"cost ({cur})"
+            )
             ax2.set_ylabel(f"cost ({cur})", color="#7c8a3a")
             h2, l2 = ax2.get_legend_handles_labels()
             handles, labels = handles + h2, labels + l2

@@ -15,19 +15,18 @@ import matplotlib
 
 matplotlib.use("Agg")
 
-import matplotlib.pyplot as plt  # noqa: E402
-from matplotlib.patches import PathPatch  # noqa: E402
-from matplotlib.path import Path as MplPath  # noqa: E402
-from shapely.geometry import Polygon  # noqa: E402
-from shapely.geometry.base import BaseGeometry  # noqa: E402
+import matplotlib.pyplot as plt
+from matplotlib.patches import PathPatch
+from matplotlib.path import Path as MplPath
+from shapely.geometry import Polygon
+from shapely.geometry.base import BaseGeometry
 
-from optimizer.building import LevelTributary, Scenario  # noqa: E402
+from optimizer.building import LevelTributary, Scenario
 
 __all__ = ["distinct_floors", "plot_plan", "write_plans"]
 
 
-def distinct_floors(scenario: Scenario,
-                    tributary: Mapping[str, LevelTributary]) -> list[tuple[str, ...]]:
+def distinct_floors(scenario: Scenario, tributary: Mapping[str, LevelTributary]) -> list[tuple[str, ...]]:
     """Group the levels that share a floor plate and a set of columns (bottom to top)."""
     groups: dict[tuple[int, tuple[str, ...]], list[str]] = {}
     for lv in scenario.levels:
@@ -56,8 +55,9 @@ def _title(levels: tuple[str, ...]) -> str:
     return f"Levels {levels[0]} to {levels[-1]} ({len(levels)} levels)"
 
 
-def plot_plan(scenario: Scenario, tributary: Mapping[str, LevelTributary],
-              levels: tuple[str, ...], path: str | Path) -> Path:
+def plot_plan(
+    scenario: Scenario, tributary: Mapping[str, LevelTributary], levels: tuple[str, ...], path: str | Path
+) -> Path:
     """Draw one distinct floor to ``path`` (PNG); axes in m, areas in m2."""
     lt = tributary[levels[0]]
     floor = scenario.floors[lt.floor_index]
@@ -65,16 +65,15 @@ def plot_plan(scenario: Scenario, tributary: Mapping[str, LevelTributary],
     outline = Polygon(floor.outline_m)
     ax.add_patch(_patch(outline, facecolor="none", edgecolor="black", linewidth=1.5))
     for hole in floor.holes_m:
-        ax.add_patch(_patch(Polygon(hole), facecolor="0.85", edgecolor="black",
-                            hatch="//", linewidth=1.0))
+        ax.add_patch(_patch(Polygon(hole), facecolor="0.85", edgecolor="black", hatch="//", linewidth=1.0))
     cmap = plt.get_cmap("tab20")
     for i, (sid, cell) in enumerate(sorted(lt.cells.items())):
         for poly in _polygons(cell.polygon):
-            ax.add_patch(_patch(poly, facecolor=cmap(i % 20), alpha=0.45, edgecolor="0.3",
-                                linewidth=0.5))
+            ax.add_patch(_patch(poly, facecolor=cmap(i % 20), alpha=0.45, edgecolor="0.3", linewidth=0.5))
         ax.plot(cell.x_m, cell.y_m, "s", color="black", markersize=5)
-        ax.annotate(f"{sid}\n{cell.area_m2:.1f} m2", (cell.x_m, cell.y_m),
-                    textcoords="offset points", xytext=(4, 4), fontsize=7)
+        ax.annotate(
+            f"{sid}\n{cell.area_m2:.1f} m2", (cell.x_m, cell.y_m), textcoords="offset points", xytext=(4, 4), fontsize=7
+        )
     minx, miny, maxx, maxy = outline.bounds
     pad = 0.05 * max(maxx - minx, maxy - miny, 1.0)
     ax.set_xlim(minx - pad, maxx + pad)
@@ -83,8 +82,9 @@ def plot_plan(scenario: Scenario, tributary: Mapping[str, LevelTributary],
     ax.set_xlabel("plan X (m)")
     ax.set_ylabel("plan Y (m)")
     total = sum(c.area_m2 for c in lt.cells.values())
-    ax.set_title(f"{scenario.project.name}: {_title(levels)}\n"
-                 f"tributary areas, total {total:.1f} m2 on {len(lt.cells)} columns")
+    ax.set_title(
+        f"{scenario.project.name}: {_title(levels)}\ntributary areas, total {total:.1f} m2 on {len(lt.cells)} columns"
+    )
     out = Path(path)
     out.parent.mkdir(parents=True, exist_ok=True)
     fig.savefig(out, dpi=110, bbox_inches="tight")
@@ -92,8 +92,7 @@ def plot_plan(scenario: Scenario, tributary: Mapping[str, LevelTributary],
     return out
 
 
-def write_plans(scenario: Scenario, tributary: Mapping[str, LevelTributary],
-                out_dir: str | Path) -> list[Path]:
+def write_plans(scenario: Scenario, tributary: Mapping[str, LevelTributary], out_dir: str | Path) -> list[Path]:
     """Write one PNG per distinct floor into ``out_dir``; returns the paths."""
     paths = []
     for levels in distinct_floors(scenario, tributary):

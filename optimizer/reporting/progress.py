@@ -22,8 +22,14 @@ __all__ = ["Progress"]
 class Progress:
     """Stage-aware progress display (callable)."""
 
-    def __init__(self, stream: TextIO | None = None, quiet: bool = False, log_json: str | Path | None = None,
-                 width: int = 28, delay_s: float = 0.0) -> None:
+    def __init__(
+        self,
+        stream: TextIO | None = None,
+        quiet: bool = False,
+        log_json: str | Path | None = None,
+        width: int = 28,
+        delay_s: float = 0.0,
+    ) -> None:
         self.stream = stream or sys.stderr
         self.quiet = quiet
         self.delay_s = delay_s
@@ -33,7 +39,7 @@ class Progress:
         self.stage = ""
         self.last = 0.0
         self.open_line = False
-        self.log = open(log_json, "a", encoding="utf-8") if log_json else None  # noqa: SIM115
+        self.log = open(log_json, "a", encoding="utf-8") if log_json else None
 
     def __call__(self, stage: str, done: int, total: int) -> None:
         """Report progress of ``stage``: ``done`` of ``total`` (total 0: a message)."""
@@ -43,8 +49,9 @@ class Progress:
             self.stage = stage
             self.stage_start = now
         if self.log is not None:
-            self.log.write(json.dumps({"t_s": round(now - self.start, 3), "stage": stage, "done": done,
-                                       "total": total}) + "\n")
+            self.log.write(
+                json.dumps({"t_s": round(now - self.start, 3), "stage": stage, "done": done, "total": total}) + "\n"
+            )
             self.log.flush()
         if self.quiet or now - self.start < self.delay_s:
             return

@@ -119,8 +119,12 @@ def _num(x: object, nd: int = 3) -> str:
 def _table(df: pd.DataFrame, cls: str = "", digits: dict[str, int] | None = None) -> str:
     """A DataFrame as an HTML table; numbers right-aligned, NaN empty."""
     digits = digits or {}
-    head = "".join(f"<th class='num'>{_e(str(c))}</th>" if pd.api.types.is_numeric_dtype(df[c])
-                   and not pd.api.types.is_bool_dtype(df[c]) else f"<th>{_e(str(c))}</th>" for c in df.columns)
+    head = "".join(
+        f"<th class='num'>{_e(str(c))}</th>"
+        if pd.api.types.is_numeric_dtype(df[c]) and not pd.api.types.is_bool_dtype(df[c])
+        else f"<th>{_e(str(c))}</th>"
+        for c in df.columns
+    )
     rows = []
     for rec in df.itertuples(index=False):
         tds = []
@@ -133,8 +137,7 @@ def _table(df: pd.DataFrame, cls: str = "", digits: dict[str, int] | None = None
             else:
                 tds.append(f"<td>{_e(_num(x))}</td>")
         rows.append("<tr>" + "".join(tds) + "</tr>")
-    return (f"<table class='{cls}'><thead><tr>{head}</tr></thead><tbody>" + "".join(rows)
-            + "</tbody></table>")
+    return f"<table class='{cls}'><thead><tr>{head}</tr></thead><tbody>" + "".join(rows) + "</tbody></table>"
 
 
 def _val(v: object) -> str:
@@ -149,7 +152,7 @@ def _kv(rows: list[tuple[str, object]], pairs: int = 1) -> str:
     """Key-value table; ``pairs`` key-value pairs side by side per row."""
     body = []
     for k in range(0, len(rows), pairs):
-        chunk = rows[k:k + pairs]
+        chunk = rows[k : k + pairs]
         cells = "".join(f"<th>{_e(key)}</th><td>{_e(_val(v))}</td>" for key, v in chunk)
         cells += "<th></th><td></td>" * (pairs - len(chunk))
         body.append(f"<tr>{cells}</tr>")
@@ -168,11 +171,13 @@ def _img(data: bytes | None, alt: str, natural: bool = False) -> str:
 
             with Image.open(io.BytesIO(data)) as im:
                 width = int(0.8 * im.size[0])
-        except Exception:  # noqa: BLE001 -- a picture of unknown size is shown scaled to the page
+        except Exception:
             return tag
         if width > 1100:
-            tag = (f"<div class='scroll'><img class='pic natural' style='width:{width}px' alt='{_e(alt)}' "
-                   f"src='data:image/png;base64,{b64}'></div>")
+            tag = (
+                f"<div class='scroll'><img class='pic natural' style='width:{width}px' alt='{_e(alt)}' "
+                f"src='data:image/png;base64,{b64}'></div>"
+            )
     return tag
 
 
@@ -182,12 +187,11 @@ def _small_png(data: bytes) -> bytes:
         from PIL import Image
 
         with Image.open(io.BytesIO(data)) as im:
-            small = im.convert("RGB").quantize(colors=256, method=Image.Quantize.FASTOCTREE,
-                                               dither=Image.Dither.NONE)
+            small = im.convert("RGB").quantize(colors=256, method=Image.Quantize.FASTOCTREE, dither=Image.Dither.NONE)
             out = io.BytesIO()
             small.save(out, format="png", optimize=True)
         return out.getvalue() if out.tell() < len(data) else data
-    except Exception:  # noqa: BLE001 -- keep the original
+    except Exception:
         return data
 
 
@@ -197,7 +201,7 @@ def _picture(folder: Path | None, rel: str, make: object) -> bytes | None:
         return (Path(folder) / rel).read_bytes()
     try:
         return make()  # type: ignore[operator]
-    except Exception:  # noqa: BLE001 -- a missing picture must not lose the report
+    except Exception:
         return None
 
 
@@ -217,7 +221,7 @@ def governing_cell(r: RunResult, mark: str) -> int:
 
 
 def _utilisation_text(r: RunResult, i: int) -> str:
-    """"resistance 0.612 (bending about z); overall 0.976 (fire resistance R60)" for cell ``i``."""
+    """Resistance and overall utilisation of cell ``i``, e.g. "resistance 0.612 (bending about z); overall 0.976"."""
     checks = r.checks
     res = checks.checks[int(checks.governing_resistance[i])]
     gov = checks.checks[int(checks.governing[i])]
@@ -234,8 +238,11 @@ def cell_actions(r: RunResult, i: int) -> ColumnActions:
     The same ones the run's exact re-check used (``CellTable.actions``), scalar for the sheet.
     """
     acts = r.feasibility.cells.actions(np.array([i]), int(r.chosen_orient[i]))
-    scalar = {f.name: (float(np.asarray(v).ravel()[0]) if isinstance(v, np.ndarray) else v)
-              for f in dataclasses.fields(acts) for v in [getattr(acts, f.name)]}
+    scalar = {
+        f.name: (float(np.asarray(v).ravel()[0]) if isinstance(v, np.ndarray) else v)
+        for f in dataclasses.fields(acts)
+        for v in [getattr(acts, f.name)]
+    }
     return ColumnActions(**scalar)
 
 
@@ -246,16 +253,25 @@ def cell_sheet(r: RunResult, i: int) -> Sheet:
     ct = r.catalogue.types[t]
     turned = int(r.chosen_orient[i]) == 1
     src = "from the actions table" + (" (stack turned 90 deg: plan axes swapped)" if turned else "")
-    title = (f"Type {r.mark_of(i)}: governing cell {stack} at level {level} "
-             f"({ct.section_key}, {ct.design.section.bars.notation}, {ct.design.concrete.name})")
-    return build_sheet(title, ct.design, cell_actions(r, i), r.checks.column(i), r.scenario.params,
-                       {"y": src, "z": src})
+    title = (
+        f"Type {r.mark_of(i)}: governing cell {stack} at level {level} "
+        f"({ct.section_key}, {ct.design.section.bars.notation}, {ct.design.concrete.name})"
+    )
+    return build_sheet(
+        title, ct.design, cell_actions(r, i), r.checks.column(i), r.scenario.params, {"y": src, "z": src}
+    )
 
 
 def sheet_fragment(sheet: Sheet, mark: str) -> str:
     """A calculation sheet as an HTML fragment (a <section class='sheet'>)."""
-    return "\n".join([f"<section class='sheet' id='sheet-{_e(mark)}' data-type='{_e(mark)}'>",
-                      f"<h3>{_e(sheet.title)}</h3>", render_sections_html(sheet, "h4"), "</section>"])
+    return "\n".join(
+        [
+            f"<section class='sheet' id='sheet-{_e(mark)}' data-type='{_e(mark)}'>",
+            f"<h3>{_e(sheet.title)}</h3>",
+            render_sections_html(sheet, "h4"),
+            "</section>",
+        ]
+    )
 
 
 # ---------------------------------------------------------------------------------------------- parts
@@ -269,17 +285,31 @@ def _inputs(r: RunResult) -> str:
     other = [n for n in r.notes if n not in lateral]
     # The takedown and the run each state the lateral system; say it once, citing the clause where one does.
     lateral = sorted(lateral, key=lambda n: ("EN 1992" not in n, -len(n)))[:1]
-    out = ["<section class='major' id='inputs'><h2>3. Inputs and assumptions</h2>",
-           _kv([("project", sc.project.name), ("description", sc.project.description or ""),
-                ("scenario file", r.scenario_path), ("scenario SHA-256 (first 16)", r.scenario_hash),
-                ("load method", "takedown from the floor plans (tributary areas)" if r.takedown is not None
-                 else "actions from an analysis (CSV)"),
+    out = [
+        "<section class='major' id='inputs'><h2>3. Inputs and assumptions</h2>",
+        _kv(
+            [
+                ("project", sc.project.name),
+                ("description", sc.project.description or ""),
+                ("scenario file", r.scenario_path),
+                ("scenario SHA-256 (first 16)", r.scenario_hash),
+                (
+                    "load method",
+                    "takedown from the floor plans (tributary areas)"
+                    if r.takedown is not None
+                    else "actions from an analysis (CSV)",
+                ),
                 ("objective", r.settings.objective.value),
-                ("solver; time limit (s); gap target", f"{r.settings.solver.solver}; "
-                 f"{r.settings.solver.time_limit_s:g}; {r.settings.solver.gap_rel:g}"),
+                (
+                    "solver; time limit (s); gap target",
+                    f"{r.settings.solver.solver}; {r.settings.solver.time_limit_s:g}; {r.settings.solver.gap_rel:g}",
+                ),
                 ("storeys; stacks; cells", f"{len(sc.levels)}; {len(sc.stacks)}; {len(r.feasibility.cells)}"),
-                ("catalogue", f"{len(r.catalogue)} candidate types")]),
-           "<h3>Lateral system</h3>"]
+                ("catalogue", f"{len(r.catalogue)} candidate types"),
+            ]
+        ),
+        "<h3>Lateral system</h3>",
+    ]
     out += [f"<p><strong>{_e(n)}</strong></p>" for n in lateral] or ["<p>(not stated)</p>"]
     out.append("<h3>National parameters</h3>")
     out.append(_kv([(k, v) for k, v in params.items()], pairs=3))
@@ -333,14 +363,20 @@ def _headline(r: RunResult) -> str:
         ("proven gap", f"{100 * gap:.2f} %" if gap is not None and math.isfinite(gap) else "n/a"),
         ("solve time (s)", _num(sol["seconds"], 1)),
         (f"cell-wise lower bound ({unit}): every cell at its lightest feasible type", _num(s["lower_bound"], 1)),
-        ("rationalisation premium over the lower bound",
-         f"{100 * s['premium']:.1f} %" if s["premium"] is not None and math.isfinite(s["premium"]) else "n/a"),
+        (
+            "rationalisation premium over the lower bound",
+            f"{100 * s['premium']:.1f} %" if s["premium"] is not None and math.isfinite(s["premium"]) else "n/a",
+        ),
     ]
     base = s["baseline"]
     if base is not None:
         diff = s["steel_t"] - base["steel_t"]
-        rows.append(("rule-of-thumb baseline (3 load groups, bands of 4 storeys): steel (t); types",
-                     f"{base['steel_t']:,.2f}; {base['types']}"))
+        rows.append(
+            (
+                "rule-of-thumb baseline (3 load groups, bands of 4 storeys): steel (t); types",
+                f"{base['steel_t']:,.2f}; {base['types']}",
+            )
+        )
         pct = f" ({100 * diff / base['steel_t']:+.1f} %)" if base["steel_t"] else ""
         rows.append(("this schedule against the baseline: steel (t)", f"{diff:+,.2f}{pct}"))
     else:
@@ -376,16 +412,18 @@ def _schedule(r: RunResult, tables: dict, folder: Path | None) -> str:
             else:
                 tds.append(f"<td>{_e(m)}</td>")
         rows.append("<tr>" + "".join(tds) + "</tr>")
-    out = ["<section class='major wide' id='schedule'><h2>4. Column schedule</h2>",
-           "<p class='sub'>Type mark per column stack (across) and level (top floor first). A higher mark is a "
-           "heavier column (larger section, then more steel, then a stronger grade); the shading follows the "
-           "same order, pale to dark.</p>",
-           f"<div class='scroll'><table class='schedule'><thead><tr>{head}</tr></thead><tbody>"
-           + "".join(rows) + "</tbody></table></div>",
-           "<h3>Elevation: type and utilisation of every cell</h3>",
-           _img(_picture(folder, "elevation.png", lambda: figure_bytes(elevation_figure(r))), "elevation",
-                natural=True),
-           "</section>"]
+    out = [
+        "<section class='major wide' id='schedule'><h2>4. Column schedule</h2>",
+        "<p class='sub'>Type mark per column stack (across) and level (top floor first). A higher mark is a "
+        "heavier column (larger section, then more steel, then a stronger grade); the shading follows the "
+        "same order, pale to dark.</p>",
+        f"<div class='scroll'><table class='schedule'><thead><tr>{head}</tr></thead><tbody>"
+        + "".join(rows)
+        + "</tbody></table></div>",
+        "<h3>Elevation: type and utilisation of every cell</h3>",
+        _img(_picture(folder, "elevation.png", lambda: figure_bytes(elevation_figure(r))), "elevation", natural=True),
+        "</section>",
+    ]
     return "\n".join(out)
 
 
@@ -395,32 +433,42 @@ def _types(r: RunResult, tables: dict, folder: Path | None) -> str:
     colours = type_colours(r)
     df = tables["types"].copy()
     df = df[[c for c in df.columns if not df[c].isna().all()]]  # e.g. no diameter column without circles
-    out = ["<section class='major' id='types'><h2>5. Type catalogue</h2>",
-           "<p class='sub'>b along plan y, h along plan z (as given; turned stacks swap them). Dimensions mm, "
-           "areas mm2.</p>",
-           f"<div class='scroll'>{_table(df, cls='types', digits={'rho_percent': 2})}</div>"]
+    out = [
+        "<section class='major' id='types'><h2>5. Type catalogue</h2>",
+        "<p class='sub'>b along plan y, h along plan z (as given; turned stacks swap them). Dimensions mm, "
+        "areas mm2.</p>",
+        f"<div class='scroll'>{_table(df, cls='types', digits={'rho_percent': 2})}</div>",
+    ]
     for u in r.types_used:
         c = colours[u.mark]
         ct = r.catalogue.types[u.type_index]
         i = governing_cell(r, u.mark)
         stack, level = r.feasibility.cells.cells[i]
-        out.append(f"<h3><span class='swatch' style='background:{c};color:{text_colour(c)}'>{_e(u.mark)}</span> "
-                   f"{_e(ct.section_key)} mm, {_e(ct.design.section.bars.notation)}, {_e(ct.design.concrete.name)}"
-                   f" &middot; {len(u.cells)} cells &middot; governing cell {_e(stack)} at {_e(level)}: "
-                   f"{_e(_utilisation_text(r, i))}</h3>")
-        out.append(_img(_picture(folder, f"types/{u.mark}.png",
-                                 lambda m=u.mark: figure_bytes(type_curves_figure(r, m))),
-                        f"N-M curves of type {u.mark}"))
+        out.append(
+            f"<h3><span class='swatch' style='background:{c};color:{text_colour(c)}'>{_e(u.mark)}</span> "
+            f"{_e(ct.section_key)} mm, {_e(ct.design.section.bars.notation)}, {_e(ct.design.concrete.name)}"
+            f" &middot; {len(u.cells)} cells &middot; governing cell {_e(stack)} at {_e(level)}: "
+            f"{_e(_utilisation_text(r, i))}</h3>"
+        )
+        out.append(
+            _img(
+                _picture(folder, f"types/{u.mark}.png", lambda m=u.mark: figure_bytes(type_curves_figure(r, m))),
+                f"N-M curves of type {u.mark}",
+            )
+        )
     out.append("</section>")
     return "\n".join(out)
 
 
 def _quantities(r: RunResult, tables: dict) -> str:
     df = tables["quantities"]
-    return ("<section class='major' id='quantities'><h2>6. Quantities</h2>"
-            "<p class='sub'>Main bars over the storey height plus the lap into the storey above; links and "
-            "ties by the spacing rules of EN 1992-1-1 9.5.3. Mass from nominal bar areas and 7850 kg/m3.</p>"
-            + _table(df) + "</section>")
+    return (
+        "<section class='major' id='quantities'><h2>6. Quantities</h2>"
+        "<p class='sub'>Main bars over the storey height plus the lap into the storey above; links and "
+        "ties by the spacing rules of EN 1992-1-1 9.5.3. Mass from nominal bar areas and 7850 kg/m3.</p>"
+        + _table(df)
+        + "</section>"
+    )
 
 
 def _extras(r: RunResult, tables: dict, folder: Path | None) -> str:
@@ -442,12 +490,14 @@ def _extras(r: RunResult, tables: dict, folder: Path | None) -> str:
 
 
 def _sheets(r: RunResult) -> str:
-    out = ["<section class='major' id='sheets'><h2>7. Calculation sheets</h2>",
-           "<p class='sub'>For each type, the cell where its strength works hardest (highest resistance "
-           "utilisation), from the exact re-check of the run; each sheet's summary gives the governing "
-           "resistance, detailing, cover and fire checks apart. Forces kN, moments kNm, lengths mm, "
-           "stresses MPa.</p>",
-           f"<p class='caution small'>{_e(CAUTION)}</p>"]
+    out = [
+        "<section class='major' id='sheets'><h2>7. Calculation sheets</h2>",
+        "<p class='sub'>For each type, the cell where its strength works hardest (highest resistance "
+        "utilisation), from the exact re-check of the run; each sheet's summary gives the governing "
+        "resistance, detailing, cover and fire checks apart. Forces kN, moments kNm, lengths mm, "
+        "stresses MPa.</p>",
+        f"<p class='caution small'>{_e(CAUTION)}</p>",
+    ]
     for u in r.types_used:
         out.append(sheet_fragment(cell_sheet(r, governing_cell(r, u.mark)), u.mark))
     out.append("</section>")
@@ -457,9 +507,15 @@ def _sheets(r: RunResult) -> str:
 def render_report(r: RunResult, tables: dict, folder: Path | None = None) -> str:
     """The whole report page as a string; pictures already in ``folder`` are reused."""
     sc = r.scenario
-    toc = [("headline", "Headline figures"), ("warnings", "Warnings"), ("inputs", "Inputs and assumptions"),
-           ("schedule", "Column schedule"), ("types", "Type catalogue"), ("quantities", "Quantities"),
-           ("sheets", "Calculation sheets")]
+    toc = [
+        ("headline", "Headline figures"),
+        ("warnings", "Warnings"),
+        ("inputs", "Inputs and assumptions"),
+        ("schedule", "Column schedule"),
+        ("types", "Type catalogue"),
+        ("quantities", "Quantities"),
+        ("sheets", "Calculation sheets"),
+    ]
     parts = [
         "<!DOCTYPE html><html lang='en'><head><meta charset='utf-8'>",
         "<meta name='viewport' content='width=device-width, initial-scale=1'>",
@@ -468,10 +524,17 @@ def render_report(r: RunResult, tables: dict, folder: Path | None = None) -> str
         f"<p class='sub'>Reinforced-concrete columns to EN 1992-1-1 and EN 1992-1-2 &middot; "
         f"{_e(r.scenario.params.name)} &middot; colstack {_e(__version__)}</p>",
         f"<p class='caution' id='caution'>{_e(CAUTION)}</p>",
-        "<nav><strong>Contents</strong><ol>" + "".join(f"<li><a href='#{a}'>{_e(t)}</a></li>" for a, t in toc)
+        "<nav><strong>Contents</strong><ol>"
+        + "".join(f"<li><a href='#{a}'>{_e(t)}</a></li>" for a, t in toc)
         + "</ol></nav>",
-        _headline(r), _warnings(r), _inputs(r), _schedule(r, tables, folder), _types(r, tables, folder),
-        _quantities(r, tables), _extras(r, tables, folder), _sheets(r),
+        _headline(r),
+        _warnings(r),
+        _inputs(r),
+        _schedule(r, tables, folder),
+        _types(r, tables, folder),
+        _quantities(r, tables),
+        _extras(r, tables, folder),
+        _sheets(r),
         f"<footer>{_e(CAUTION)} Scenario {_e(r.scenario_path)} (SHA-256 {_e(r.scenario_hash)}).</footer>",
         "</main></body></html>",
     ]

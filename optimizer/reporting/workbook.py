@@ -26,8 +26,13 @@ from optimizer.reporting.pictures import text_colour, type_colours
 
 __all__ = ["write_workbook", "TABLE_SHEETS"]
 
-TABLE_SHEETS = {"schedule": "Schedule", "types": "Types", "cells": "Cells", "quantities": "Quantities",
-                "pareto": "Pareto"}
+TABLE_SHEETS = {
+    "schedule": "Schedule",
+    "types": "Types",
+    "cells": "Cells",
+    "quantities": "Quantities",
+    "pareto": "Pareto",
+}
 
 _HEAD_FILL = PatternFill("solid", fgColor="E7ECE9")
 _HEAD_FONT = Font(bold=True, color="1D2433")
@@ -94,9 +99,12 @@ def _schedule_sheet(ws: Worksheet, r: RunResult, df: pd.DataFrame) -> None:
         ct = r.catalogue.types[u.type_index]
         c = ws.cell(row=k, column=col, value=u.mark)
         c.fill, c.font, c.alignment = fills[u.mark], fonts[u.mark], Alignment(horizontal="center")
-        ws.cell(row=k, column=col + 1,
-                value=f"{ct.section_key} mm, {ct.design.section.bars.notation}, {ct.design.concrete.name}, "
-                      f"{len(u.cells)} cells")
+        ws.cell(
+            row=k,
+            column=col + 1,
+            value=f"{ct.section_key} mm, {ct.design.section.bars.notation}, {ct.design.concrete.name}, "
+            f"{len(u.cells)} cells",
+        )
     ws.column_dimensions[get_column_letter(col)].width = 8
     ws.column_dimensions[get_column_letter(col + 1)].width = 40
 
@@ -135,13 +143,22 @@ def _readme_sheet(ws: Worksheet, r: RunResult) -> None:
         ("max utilisation", s["max_utilisation"]),
         ("colstack version", s["versions"]["colstack"]),
         ("", ""),
-        ("units", "forces kN, moments kNm, lengths mm, steel kg (t in quantities), concrete m3, areas m2; "
-                  "the unit of every column is named in its header"),
-        ("Schedule", "levels top down (roof first), column stacks across; each cell holds its type mark, "
-                     "shaded by type (pale = light type, dark = heavy type)"),
+        (
+            "units",
+            "forces kN, moments kNm, lengths mm, steel kg (t in quantities), concrete m3, areas m2; "
+            "the unit of every column is named in its header",
+        ),
+        (
+            "Schedule",
+            "levels top down (roof first), column stacks across; each cell holds its type mark, "
+            "shaded by type (pale = light type, dark = heavy type)",
+        ),
         ("Types", "the type catalogue of this schedule: section, bars, links, cover, grade, where used"),
-        ("Cells", "one row per column and storey: actions, design moments, resistances, slenderness, "
-                  "utilisation, governing check, steel"),
+        (
+            "Cells",
+            "one row per column and storey: actions, design moments, resistances, slenderness, "
+            "utilisation, governing check, steel",
+        ),
         ("Quantities", "reinforcement by diameter, concrete by grade, formwork, plan area, cost, carbon"),
         ("Pareto", "when present: the best schedule for each cap on the number of types"),
     ]

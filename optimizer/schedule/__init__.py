@@ -8,7 +8,7 @@ only those before it:
 * ``stackpaths`` and ``stackdp`` - each stack alone as a shortest path (networkx, numpy, compiled);
 * ``heuristic`` - the unconstrained optimum, the greedy warm start, the lower bound, the baseline, figures;
 * ``builder`` and ``backends`` - a model as named columns and rows, and the HiGHS and CBC back-ends;
-* ``compact`` - the compact formulation and its reductions;
+* ``compact`` - the compact formulation (its safe reductions are in ``builder``);
 * ``pathmodel``, ``master`` and ``paths`` - the path formulation (column generation);
 * ``solve`` - the entry points: ``solve``, ``solve_paths``, ``pareto``, ``lower_bound_premium``;
 * ``check`` and ``diagnose`` - the independent rule checker and the reasons for infeasibility;

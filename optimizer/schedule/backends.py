@@ -104,16 +104,24 @@ class ModelVariables:
 def pulp_model(form: Formulation, problem: ScheduleProblem) -> tuple[pulp.LpProblem, ModelVariables]:
     """The formulation as a PuLP problem (named after the problem's objective) and its variables."""
     prob = pulp.LpProblem(f"column_schedule_{Objective(problem.objective).value}", pulp.LpMinimize)
-    cols = [pulp.LpVariable(name, lowBound=float(lb), upBound=None if ub == np.inf else float(ub),
-                            cat=pulp.LpBinary if (integer and lb == 0 and ub == 1) else
-                            (pulp.LpInteger if integer else pulp.LpContinuous))
-            for name, lb, ub, integer in zip(form.col_name, form.col_lb, form.col_ub, form.col_int, strict=True)]
+    cols = [
+        pulp.LpVariable(
+            name,
+            lowBound=float(lb),
+            upBound=None if ub == np.inf else float(ub),
+            cat=pulp.LpBinary
+            if (integer and lb == 0 and ub == 1)
+            else (pulp.LpInteger if integer else pulp.LpContinuous),
+        )
+        for name, lb, ub, integer in zip(form.col_name, form.col_lb, form.col_ub, form.col_int, strict=True)
+    ]
     nz = np.flatnonzero(form.col_cost)
     prob += pulp.LpAffineExpression([(cols[j], float(form.col_cost[j])) for j in nz]), "objective"
     for i, name in enumerate(form.row_name):
         a, b = form.row_start[i], form.row_start[i + 1]
-        expr = pulp.LpAffineExpression([(cols[j], float(v)) for j, v in zip(form.row_idx[a:b], form.row_val[a:b],
-                                                                             strict=True)])
+        expr = pulp.LpAffineExpression(
+            [(cols[j], float(v)) for j, v in zip(form.row_idx[a:b], form.row_val[a:b], strict=True)]
+        )
         lo, hi = form.row_lo[i], form.row_hi[i]
         if lo == hi:
             prob += (expr == float(lo), name)
@@ -135,13 +143,13 @@ def pulp_model(form: Formulation, problem: ScheduleProblem) -> tuple[pulp.LpProb
 _HIGHS_GREETED = False
 
 
-def new_highs():  # noqa: ANN201 - highspy is typed loosely
+def new_highs():
     """A silent ``highspy.Highs`` object.
 
     HiGHS prints a banner on stdout when the first object of a process is made, before any option can be set;
     that first construction happens here with stdout (the file descriptor) sent to /dev/null.
     """
-    global _HIGHS_GREETED  # noqa: PLW0603 - once per process
+    global _HIGHS_GREETED
     if not _HIGHS_GREETED:
         sys.stdout.flush()
         saved = os.dup(1)
@@ -159,7 +167,7 @@ def new_highs():  # noqa: ANN201 - highspy is typed loosely
     return h
 
 
-def build_highs(form: Formulation, threads: int | None = None):  # noqa: ANN201 - highspy is typed loosely
+def build_highs(form: Formulation, threads: int | None = None):
     """The same formulation passed to highspy in bulk (columns, then rows in compressed sparse form).
 
     Args:
@@ -182,8 +190,15 @@ def build_highs(form: Formulation, threads: int | None = None):  # noqa: ANN201 
         h.changeColsIntegrality(len(ints), ints, np.full(len(ints), highspy.HighsVarType.kInteger))
     lo = np.where(np.isinf(form.row_lo), -inf, form.row_lo)
     hi = np.where(np.isinf(form.row_hi), inf, form.row_hi)
-    h.addRows(form.n_rows, lo, hi, len(form.row_idx), form.row_start[:-1].astype(np.int32),
-              form.row_idx.astype(np.int32), form.row_val)
+    h.addRows(
+        form.n_rows,
+        lo,
+        hi,
+        len(form.row_idx),
+        form.row_start[:-1].astype(np.int32),
+        form.row_idx.astype(np.int32),
+        form.row_val,
+    )
     return h
 
 
@@ -195,7 +210,7 @@ def build_highs(form: Formulation, threads: int | None = None):  # noqa: ANN201 
 class _HiGHSWarm(pulp.HiGHS):
     """PuLP's HiGHS interface, with the variables' initial values handed to HiGHS as a start."""
 
-    def callSolver(self, lp: pulp.LpProblem) -> None:  # noqa: D102
+    def callSolver(self, lp: pulp.LpProblem) -> None:
         h = lp.solverModel
         values = [v.varValue if v.varValue is not None else 0.0 for v in lp.variables()]
         if any(v.varValue is not None for v in lp.variables()):
@@ -206,8 +221,9 @@ class _HiGHSWarm(pulp.HiGHS):
         h.run()
 
 
-def solve_highspy(form: Formulation, start: np.ndarray | None, time_limit_s: float, gap_rel: float,
-                  threads: int | None) -> Outcome:
+def solve_highspy(
+    form: Formulation, start: np.ndarray | None, time_limit_s: float, gap_rel: float, threads: int | None
+) -> Outcome:
     """Solve a formulation with HiGHS through highspy.
 
     Args:
@@ -238,12 +254,25 @@ def solve_highspy(form: Formulation, start: np.ndarray | None, time_limit_s: flo
     bound = min(float(info.mip_dual_bound), obj)
     stopped = ms in (highspy.HighsModelStatus.kTimeLimit, highspy.HighsModelStatus.kInterrupt)
     gap = abs(obj - bound) / max(abs(obj), 1e-9) if has else np.inf
-    return Outcome(status_from(has, infeasible, gap, gap_rel, stopped), xval, obj, bound, secs,
-                    [f"HiGHS status: {h.modelStatusToString(ms)}", f"branch-and-bound nodes: {info.mip_node_count}"])
+    return Outcome(
+        status_from(has, infeasible, gap, gap_rel, stopped),
+        xval,
+        obj,
+        bound,
+        secs,
+        [f"HiGHS status: {h.modelStatusToString(ms)}", f"branch-and-bound nodes: {info.mip_node_count}"],
+    )
 
 
-def solve_pulp(problem: ScheduleProblem, form: Formulation, start: np.ndarray | None, solver: SolverName,
-               time_limit_s: float, gap_rel: float, threads: int | None) -> Outcome:
+def solve_pulp(
+    problem: ScheduleProblem,
+    form: Formulation,
+    start: np.ndarray | None,
+    solver: SolverName,
+    time_limit_s: float,
+    gap_rel: float,
+    threads: int | None,
+) -> Outcome:
     """Solve a formulation through PuLP, with HiGHS or CBC.
 
     Args:
@@ -276,13 +305,21 @@ def solve_pulp(problem: ScheduleProblem, form: Formulation, start: np.ndarray | 
     else:
         with tempfile.TemporaryDirectory() as tmp:
             log = Path(tmp) / "cbc.log"
-            cmd = pulp.PULP_CBC_CMD(msg=False, timeLimit=time_limit_s, gapRel=gap_rel, warmStart=start is not None,
-                                    threads=threads, logPath=str(log))
+            cmd = pulp.PULP_CBC_CMD(
+                msg=False,
+                timeLimit=time_limit_s,
+                gapRel=gap_rel,
+                warmStart=start is not None,
+                threads=threads,
+                logPath=str(log),
+            )
             prob.solve(cmd)
             secs = time.perf_counter() - t0
             text = log.read_text() if log.exists() else ""
         has = pulp.LpStatus[prob.status] in ("Optimal",) or prob.sol_status in (
-            pulp.LpSolutionOptimal, pulp.LpSolutionIntegerFeasible)
+            pulp.LpSolutionOptimal,
+            pulp.LpSolutionIntegerFeasible,
+        )
         has = has and all(v.varValue is not None for v in mv.x.values())
         infeasible = pulp.LpStatus[prob.status] == "Infeasible"
         bound = _cbc_bound(text)
@@ -310,4 +347,3 @@ def _cbc_bound(log: str) -> float:
         if m:
             return float(m[-1])
     return -np.inf
-

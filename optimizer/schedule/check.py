@@ -60,7 +60,7 @@ def _concrete_area(problem: ScheduleProblem, t: int) -> float:
     return math.pi * b * b / 4.0 if bool(T.circ[t]) else b * float(T.h[t])
 
 
-def check_schedule(problem: ScheduleProblem, schedule: Schedule | np.ndarray) -> list[str]:
+def check_schedule(problem: ScheduleProblem, schedule: Schedule | np.ndarray) -> list[str]:  # noqa: PLR0912, PLR0915 - the independent checker restates every rule, one branch each
     """Every rule broken by a schedule, as sentences; empty when the schedule is valid.
 
     Args:
@@ -90,8 +90,9 @@ def check_schedule(problem: ScheduleProblem, schedule: Schedule | np.ndarray) ->
             continue
         if int(p.cand_cell[k]) != c:
             other = p.cell_names[int(p.cand_cell[k])]
-            out.append(f"stack {stack}: level {level} uses a candidate checked for {other[0]} at {other[1]}, "
-                       "not for this cell")
+            out.append(
+                f"stack {stack}: level {level} uses a candidate checked for {other[0]} at {other[1]}, not for this cell"
+            )
         chosen_type.append(int(p.cand_type[k]))
         chosen_orient.append(int(p.cand_orient[k]))
         if int(p.cand_orient[k]) == 1 and not bool(p.stack_free[int(p.stack[c])]):
@@ -150,19 +151,23 @@ def check_schedule(problem: ScheduleProblem, schedule: Schedule | np.ndarray) ->
                 ac_up = _concrete_area(p, t)
                 limit = r.lap_steel_ratio_max * ac_up
                 if as_lo + as_up > limit + _TOL:
-                    out.append(f"{where}: at the lap at the foot of level {lv_up} the bars below ({bars_lo}, "
-                               f"{as_lo:,.0f} mm2) and above ({bars_up}, {as_up:,.0f} mm2) give "
-                               f"{as_lo + as_up:,.0f} mm2, more than {r.lap_steel_ratio_max:g} Ac = "
-                               f"{r.lap_steel_ratio_max:g} x {ac_up:,.0f} = {limit:,.0f} mm2 of the section "
-                               "above (EN 1992-1-1, 9.5.2(3))")
+                    out.append(
+                        f"{where}: at the lap at the foot of level {lv_up} the bars below ({bars_lo}, "
+                        f"{as_lo:,.0f} mm2) and above ({bars_up}, {as_up:,.0f} mm2) give "
+                        f"{as_lo + as_up:,.0f} mm2, more than {r.lap_steel_ratio_max:g} Ac = "
+                        f"{r.lap_steel_ratio_max:g} x {ac_up:,.0f} = {limit:,.0f} mm2 of the section "
+                        "above (EN 1992-1-1, 9.5.2(3))"
+                    )
         if r.min_run > 1:
             for j, (_sec, first) in enumerate(sections_run[:-1]):
                 length = sections_run[j + 1][1] - first
                 if length < r.min_run:
                     lv_a = p.cell_names[chain[first]][1]
                     lv_b = p.cell_names[chain[first + length - 1]][1]
-                    out.append(f"stack {name}: the section of levels {lv_a} to {lv_b} holds for {length} storeys, "
-                               f"fewer than {r.min_run}")
+                    out.append(
+                        f"stack {name}: the section of levels {lv_a} to {lv_b} holds for {length} storeys, "
+                        f"fewer than {r.min_run}"
+                    )
     # groups: identical type and orientation level by level
     index = {n: i for i, n in enumerate(p.stack_names)}
     for group in r.groups:
@@ -180,8 +185,9 @@ def check_schedule(problem: ScheduleProblem, schedule: Schedule | np.ndarray) ->
     for c, t in r.pinned:
         if chosen_type[int(c)] is not None and chosen_type[int(c)] != int(t):
             stack, level = p.cell_names[int(c)]
-            out.append(f"stack {stack}: level {level} is pinned to {T.mark[int(t)]} but uses "
-                       f"{T.mark[chosen_type[int(c)]]}")
+            out.append(
+                f"stack {stack}: level {level} is pinned to {T.mark[int(t)]} but uses {T.mark[chosen_type[int(c)]]}"
+            )
     used = {t for t in chosen_type if t is not None}
     if r.max_types is not None and len(used) > r.max_types:
         out.append(f"the building uses {len(used)} distinct types, more than the cap of {r.max_types}")
@@ -196,6 +202,8 @@ def check_schedule(problem: ScheduleProblem, schedule: Schedule | np.ndarray) ->
             seq = [float(T.fck[chosen_type[c]]) for c in ch if chosen_type[c] is not None]
             changes = sum(1 for a, b in zip(seq[:-1], seq[1:], strict=True) if a != b)
             if changes > r.max_grade_changes:
-                out.append(f"stack {p.stack_names[s]}: the grade changes {changes} times, more than the cap of "
-                           f"{r.max_grade_changes}")
+                out.append(
+                    f"stack {p.stack_names[s]}: the grade changes {changes} times, more than the cap of "
+                    f"{r.max_grade_changes}"
+                )
     return out

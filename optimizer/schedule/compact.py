@@ -11,11 +11,9 @@ there, as named columns and rows (:class:`~optimizer.schedule.builder.Formulatio
 which :mod:`optimizer.schedule.backends` hands to HiGHS or CBC (:func:`build_model`
 gives the PuLP model).
 
-Before formulating, :func:`reduce_problem` removes what provably cannot change
-the optimum (see the docs): identical stacks are merged (one copy, weights
-multiplied), candidates that lie on no buildable path of their stack are
-dropped, and, given an incumbent, candidates whose cheapest path through the
-stack already exceeds the incumbent's value by more than the slack.
+:func:`formulate` writes the model of a problem reduced by
+:func:`optimizer.schedule.builder.reduce_problem` (identical stacks merged,
+candidates that cannot be in an optimal schedule dropped).
 :func:`start_values` and :func:`expand` translate a schedule into column values
 and back.
 """
@@ -29,133 +27,10 @@ import pulp
 
 from optimizer.schedule.backends import ModelVariables, pulp_model
 from optimizer.schedule.builder import Formulation, ModelBuilder, Reduction
-from optimizer.schedule.heuristic import figures
-from optimizer.schedule.prepared import (
-    EPS,
-    Level,
-    Prepared,
-    run_states,
-    stack_signature,
-    starter_kg,
-    step_per_face,
-    transition,
-)
+from optimizer.schedule.prepared import EPS, Prepared, run_states, starter_kg, step_per_face, transition
 from optimizer.schedule.problem import Objective, ScheduleProblem, StepRule
 
-__all__ = ["reduce_problem", "formulate", "lap_rows", "build_model", "start_values", "expand"]
-
-
-# --------------------------------------------------------------------------------------------
-# reductions
-# --------------------------------------------------------------------------------------------
-
-
-def reduce_problem(problem: ScheduleProblem, incumbent: np.ndarray | None = None,
-                   merge_stacks: bool = True, prune_paths: bool = True,
-                   type_pool: np.ndarray | None = None) -> Reduction:
-    """Safe reductions: merge identical stacks, drop candidates that cannot be in an optimal schedule.
-
-    Args:
-        problem: the problem.
-        incumbent: a feasible schedule (candidate per cell) whose value bounds the optimum from above.
-        merge_stacks: merge stacks with identical candidates, weights and storey heights (not grouped, not pinned).
-        prune_paths: drop candidates on no buildable path of their stack, and (with an incumbent) those whose
-            cheapest path is too dear.
-        type_pool: boolean mask of types the model may use (the decomposition's type pool); this one is not safe:
-            the optimum over the pool may be worse than the full optimum.
-
-    Returns:
-        The reduction; solving the reduced model and expanding gives an optimum of the full problem.
-    """
-    p = problem
-    prep = Prepared(p)
-    n = p.n_cells
-    rep = np.arange(n)
-    mult = np.ones(n, dtype=int)
-    notes: list[str] = []
-    grouped = {g for grp in p.rules.groups for g in grp}
-    if merge_stacks:
-        seen: dict[bytes, int] = {}
-        merged = 0
-        for s in range(len(p.stack_names)):
-            if p.stack_names[s] in grouped:
-                continue
-            sig = stack_signature(prep, s)
-            if sig is None:
-                continue
-            if sig in seen:
-                r = seen[sig]
-                rep[prep.chains[s]] = prep.chains[r]
-                mult[prep.chains[r]] += 1
-                mult[prep.chains[s]] = 0
-                merged += 1
-            else:
-                seen[sig] = s
-        if merged:
-            notes.append(f"{merged} stacks merged into identical ones")
-    keep = np.zeros(len(p.cand_cell), dtype=bool)
-    for c in range(n):
-        if mult[c] > 0:
-            keep[prep.cell_cands(c)] = True
-    if type_pool is not None:
-        for unit in prep.units:
-            for o, levels in unit.orients.items():
-                unit.orients[o] = [Level(lv.types[type_pool[lv.types]], lv.cands[type_pool[lv.types]],
-                                          lv.weight[type_pool[lv.types]], lv.starter[type_pool[lv.types]])
-                                   for lv in levels]
-    if not prune_paths or prep.problems:
-        if type_pool is not None:
-            keep &= type_pool[p.cand_type]
-            notes.append(f"type pool of {int(type_pool.sum())} types (decomposition: not a safe reduction)")
-        return Reduction(keep, rep, mult, tuple(notes))
-    # per unit and orientation: forward / backward cheapest paths ignoring the minimum run (a relaxation)
-    through = np.full(len(p.cand_cell), np.inf)  # cheapest path of the unit through the candidate, x multiplicity
-    unit_lb = np.zeros(n)  # cheapest path of the unit of each cell, x multiplicity
-    lb_total = 0.0
-    n_before = int(keep.sum())
-    for unit in prep.units:
-        m = int(mult[unit.cells[0, 0]])
-        if m == 0:
-            continue
-        best = np.inf
-        for levels in unit.orients.values():
-            fw = [lv.weight.copy() for lv in levels]
-            oks = []
-            for i in range(1, len(levels)):
-                ok, big = transition(p, levels[i - 1].types, levels[i].types)
-                oks.append((ok, big))
-                extra = np.where(big, levels[i].starter[None, :], 0.0)
-                mat = np.where(ok, fw[i - 1][:, None] + extra, np.inf)
-                fw[i] = levels[i].weight + (mat.min(axis=0) if len(fw[i - 1]) else np.inf)
-            bw = [lv.weight.copy() for lv in levels]
-            for i in range(len(levels) - 2, -1, -1):
-                ok, big = oks[i]
-                extra = np.where(big, levels[i + 1].starter[None, :], 0.0)
-                mat = np.where(ok, bw[i + 1][None, :] + extra, np.inf)
-                bw[i] = levels[i].weight + (mat.min(axis=1) if len(bw[i + 1]) else np.inf)
-            for i, lv in enumerate(levels):
-                val = (fw[i] + bw[i] - lv.weight) * m
-                if len(val):
-                    through[lv.cands] = np.minimum(through[lv.cands], val[:, None])
-                    best = min(best, float(val.min()))
-        unit_lb[unit.cells.ravel()] = best
-        lb_total += best
-    r = p.rules
-    price_lb = (r.price_per_type + r.price_per_section) if n > 0 else 0.0
-    slack = np.inf
-    if incumbent is not None:
-        slack = figures(p, incumbent).objective - lb_total - price_lb
-    with np.errstate(invalid="ignore"):
-        excess = through - unit_lb[p.cand_cell]
-    keep &= np.isfinite(through) & ~(excess > slack + 1e-7 * max(1.0, abs(lb_total)))
-    if type_pool is not None:
-        keep &= type_pool[p.cand_type]
-        notes.append(f"type pool of {int(type_pool.sum())} types (decomposition: not a safe reduction)")
-    notes.append(f"{n_before - int(keep.sum())} of {n_before} candidates pruned (no buildable path"
-                 + (f", or dearer than the incumbent by more than the slack {slack:.6g})" if incumbent is not None
-                    else ")"))
-    valid = type_pool is None  # over a pool, the paths bound only the pool's optimum
-    return Reduction(keep, rep, mult, tuple(notes), lower_bound=lb_total + price_lb if valid else -np.inf)
+__all__ = ["formulate", "lap_rows", "build_model", "start_values", "expand"]
 
 
 # --------------------------------------------------------------------------------------------
@@ -211,8 +86,9 @@ class _Model:
         return f"{_clean(self.p.stack_names[s])}_{_clean(names[up][1])}_on_{_clean(names[lo][1])}"
 
 
-def formulate(problem: ScheduleProblem, max_types: int | None = None,
-              reduction: Reduction | None = None) -> Formulation:
+def formulate(
+    problem: ScheduleProblem, max_types: int | None = None, reduction: Reduction | None = None
+) -> Formulation:
     """Write the integer program as named columns and rows.
 
     The phases follow the sections of ``docs/integer_program.md``: assignment (and pinned cells), type
@@ -257,8 +133,9 @@ def _assignment(m: _Model) -> None:
         lab = m.cell_label(c)
         for k in ks:
             t = int(p.cand_type[k])
-            m.x_col[k] = bld.col(f"x_{lab}_t{t}_o{int(p.cand_orient[k])}", ("x", int(k)),
-                                 cost=float(weight[k]) * int(mult[c]))
+            m.x_col[k] = bld.col(
+                f"x_{lab}_t{t}_o{int(p.cand_orient[k])}", ("x", int(k)), cost=float(weight[k]) * int(mult[c])
+            )
     for c, ks in m.kept_of_cell.items():
         bld.row(f"assign_{m.cell_label(c)}", m.x_col[ks], np.ones(len(ks)), 1.0, 1.0)
     # pinned cells: only candidates of the pinned type
@@ -285,8 +162,13 @@ def _type_linking(m: _Model, cap_t: int | None) -> np.ndarray:
         y_col[t] = bld.col(f"y_{_clean(t_.mark[t])}_t{t}", ("y", int(t)), cost=r.price_per_type)
     for k in all_kept:
         t = int(p.cand_type[k])
-        bld.row(f"link_{m.cell_label(int(p.cand_cell[k]))}_t{t}_o{int(p.cand_orient[k])}",
-                [x_col[k], y_col[t]], [1.0, -1.0], -np.inf, 0.0)
+        bld.row(
+            f"link_{m.cell_label(int(p.cand_cell[k]))}_t{t}_o{int(p.cand_orient[k])}",
+            [x_col[k], y_col[t]],
+            [1.0, -1.0],
+            -np.inf,
+            0.0,
+        )
     if cap_t is not None:
         bld.row("cap_types", y_col[used_t], np.ones(len(used_t)), -np.inf, float(cap_t))
     if count_secs:
@@ -315,25 +197,39 @@ def _grades(m: _Model) -> None:
             for g in grades:
                 kg = ks[t_.fck[p.cand_type[ks]] == g]
                 if len(kg):
-                    bld.row(f"grade_link_{m.cell_label(c)}_{g:g}", list(x_col[kg]) + [g_col[float(g)]],
-                            [1.0] * len(kg) + [-1.0], -np.inf, 0.0)
+                    bld.row(
+                        f"grade_link_{m.cell_label(c)}_{g:g}",
+                        list(x_col[kg]) + [g_col[float(g)]],
+                        [1.0] * len(kg) + [-1.0],
+                        -np.inf,
+                        0.0,
+                    )
         bld.row("cap_grades", list(g_col.values()), np.ones(len(g_col)), -np.inf, float(r.max_grades))
     if r.max_grade_changes is None:
         return
     for s, ch in enumerate(m.cells_of_stack):
         if len(ch) == 0:
             continue
-        gs = {float(g): bld.col(f"stack_grade_{_clean(p.stack_names[s])}_{g:g}", ("gs", s, float(g)))
-              for g in grades}
+        gs = {float(g): bld.col(f"stack_grade_{_clean(p.stack_names[s])}_{g:g}", ("gs", s, float(g))) for g in grades}
         for c in ch:
             ks = m.kept_of_cell[int(c)]
             for g in grades:
                 kg = ks[t_.fck[p.cand_type[ks]] == g]
                 if len(kg):
-                    bld.row(f"stack_grade_link_{m.cell_label(int(c))}_{g:g}", list(x_col[kg]) + [gs[float(g)]],
-                            [1.0] * len(kg) + [-1.0], -np.inf, 0.0)
-        bld.row(f"cap_grade_changes_{_clean(p.stack_names[s])}", list(gs.values()), np.ones(len(gs)), -np.inf,
-                float(r.max_grade_changes + 1))
+                    bld.row(
+                        f"stack_grade_link_{m.cell_label(int(c))}_{g:g}",
+                        list(x_col[kg]) + [gs[float(g)]],
+                        [1.0] * len(kg) + [-1.0],
+                        -np.inf,
+                        0.0,
+                    )
+        bld.row(
+            f"cap_grade_changes_{_clean(p.stack_names[s])}",
+            list(gs.values()),
+            np.ones(len(gs)),
+            -np.inf,
+            float(r.max_grade_changes + 1),
+        )
 
 
 def _orientation(m: _Model) -> None:
@@ -351,8 +247,9 @@ def _orientation(m: _Model) -> None:
             bld.row(f"orient_{m.cell_label(int(c))}", list(m.x_col[k1]) + [o], [1.0] * len(k1) + [-1.0], 0.0, 0.0)
 
 
-def _cumulative_attributes(m: _Model, ch: np.ndarray
-                           ) -> tuple[dict[str, dict[int, dict[float, int]]], dict[str, np.ndarray]]:
+def _cumulative_attributes(
+    m: _Model, ch: np.ndarray
+) -> tuple[dict[str, dict[int, dict[float, int]]], dict[str, np.ndarray]]:
     """z[c, v] = 1 if the attribute at c >= v, for every value above the stack's lowest.
 
     Returns:
@@ -373,8 +270,10 @@ def _cumulative_attributes(m: _Model, ch: np.ndarray
             c = int(c)
             ks = m.kept_of_cell[c]
             av = vals_all[p.cand_type[ks]]
-            zc = {float(v): bld.col(f"z_{attr}_{m.cell_label(c)}_ge{v:g}", ("z", attr, c, float(v)), integer=False)
-                  for v in levels}
+            zc = {
+                float(v): bld.col(f"z_{attr}_{m.cell_label(c)}_ge{v:g}", ("z", attr, c, float(v)), integer=False)
+                for v in levels
+            }
             z_col[attr][c] = zc
             for j, v in enumerate(levels):
                 nxt = levels[j + 1] if j + 1 < len(levels) else None
@@ -399,8 +298,9 @@ def _monotone_rows(m: _Model, pair: str, z_col: dict[str, dict[int, dict[float, 
             m.bld.row(f"same_{attr}_{pair}", [zu, z_col[attr][lo][v]], [1.0, -1.0], 0.0, 0.0)
 
 
-def _steps(m: _Model, pair: str, z_col: dict[str, dict[int, dict[float, int]]], values: dict[str, np.ndarray],
-           lo: int, up: int) -> None:
+def _steps(  # noqa: PLR0912 - one branch per step rule
+    m: _Model, pair: str, z_col: dict[str, dict[int, dict[float, int]]], values: dict[str, np.ndarray], lo: int, up: int
+) -> None:
     """Step per face (half the change of width or depth), with the starter bars they need under the starter rule.
 
     If the larger cell has attr >= v, the smaller must have attr >= the first value not below v - 2 max_step.
@@ -437,8 +337,13 @@ def _steps(m: _Model, pair: str, z_col: dict[str, dict[int, dict[float, int]]], 
         if mass <= 0:
             continue
         tag = f"{pair}_t{int(p.cand_type[k])}_o{int(p.cand_orient[k])}"
-        v_col = bld.col(f"starter_mass_{tag}", ("v", int(k), lo), integer=False, ub=np.inf,
-                        cost=float(mass) * int(m.reduction.mult[up]))
+        v_col = bld.col(
+            f"starter_mass_{tag}",
+            ("v", int(k), lo),
+            integer=False,
+            ub=np.inf,
+            cost=float(mass) * int(m.reduction.mult[up]),
+        )
         bld.row(f"starter_if_{tag}", [v_col, m.x_col[k], u_col], [1.0, -1.0, -1.0], -1.0, np.inf)
 
 
@@ -457,21 +362,32 @@ def _minimum_run(m: _Model, s: int, ch: np.ndarray) -> None:
         if m.rule is StepRule.FORBID_ANY:
             for sc in np.union1d(s_lo, s_up):
                 a, b = x_col[k_up[s_up == sc]], x_col[k_lo[s_lo == sc]]
-                bld.row(f"same_section_{pair}_s{int(sc)}", list(a) + list(b), [1.0] * len(a) + [-1.0] * len(b),
-                        0.0, 0.0)
+                bld.row(
+                    f"same_section_{pair}_s{int(sc)}", list(a) + list(b), [1.0] * len(a) + [-1.0] * len(b), 0.0, 0.0
+                )
             continue
         d = bld.col(f"change_{pair}", ("d", up, lo), integer=False, ub=0.0 if i < m.m_run else 1.0)
         d_cols.append(d)
         for sc in np.unique(s_up):
             a, b = x_col[k_up[s_up == sc]], x_col[k_lo[s_lo == sc]]
-            bld.row(f"change_if_{pair}_s{int(sc)}", [d] + list(a) + list(b),
-                    [1.0] + [-1.0] * len(a) + [1.0] * len(b), 0.0, np.inf)
+            bld.row(
+                f"change_if_{pair}_s{int(sc)}",
+                [d] + list(a) + list(b),
+                [1.0] + [-1.0] * len(a) + [1.0] * len(b),
+                0.0,
+                np.inf,
+            )
     if m.rule is StepRule.FORBID_ANY:
         return
     for i in range(1, len(ch) - m.m_run + 1):
         window = [d_cols[j] for j in range(i, i + m.m_run)]
-        bld.row(f"min_run_{_clean(p.stack_names[s])}_{_clean(p.cell_names[int(ch[i])][1])}", window,
-                np.ones(len(window)), -np.inf, 1.0)
+        bld.row(
+            f"min_run_{_clean(p.stack_names[s])}_{_clean(p.cell_names[int(ch[i])][1])}",
+            window,
+            np.ones(len(window)),
+            -np.inf,
+            1.0,
+        )
 
 
 def _groups(m: _Model) -> None:
@@ -493,15 +409,21 @@ def _groups(m: _Model) -> None:
                 key0 = {(int(p.cand_type[k]), int(p.cand_orient[k])): int(k) for k in k0}
                 key1 = {(int(p.cand_type[k]), int(p.cand_orient[k])): int(k) for k in k1}
                 for key in sorted(set(key0) | set(key1)):
-                    cols = (([m.x_col[key0[key]]] if key in key0 else [])
-                            + ([m.x_col[key1[key]]] if key in key1 else []))
+                    cols = ([m.x_col[key0[key]]] if key in key0 else []) + ([m.x_col[key1[key]]] if key in key1 else [])
                     vals = ([1.0] if key in key0 else []) + ([-1.0] if key in key1 else [])
-                    m.bld.row(f"group_{_clean(p.stack_names[ref])}_{_clean(p.stack_names[other])}_{_clean(lv)}"
-                              f"_t{key[0]}_o{key[1]}", cols, vals, 0.0, 0.0)
+                    m.bld.row(
+                        f"group_{_clean(p.stack_names[ref])}_{_clean(p.stack_names[other])}_{_clean(lv)}"
+                        f"_t{key[0]}_o{key[1]}",
+                        cols,
+                        vals,
+                        0.0,
+                        0.0,
+                    )
 
 
-def lap_rows(bld: ModelBuilder, p: ScheduleProblem, pair: str, k_lo: np.ndarray, k_up: np.ndarray,
-             x_col: np.ndarray) -> None:
+def lap_rows(
+    bld: ModelBuilder, p: ScheduleProblem, pair: str, k_lo: np.ndarray, k_up: np.ndarray, x_col: np.ndarray
+) -> None:
     """Maximum steel at the lap between two storeys of a stack (EN 1992-1-1, 9.5.2(3)).
 
     As[lower] + As[upper] <= ratio Ac[upper] for the chosen pair, written as one row over the kept
@@ -529,15 +451,18 @@ def lap_rows(bld: ModelBuilder, p: ScheduleProblem, pair: str, k_lo: np.ndarray,
     c_up = t_.As[t_up] - ratio * t_.Ac[t_up]  # <= 0 when the upper type alone passes
     exempt = None
     if StepRule(r.step_rule) is StepRule.STARTERS:
-        exempt = step_per_face(t_.b[t_lo][:, None], t_.h[t_lo][:, None], t_.b[t_up][None, :],
-                               t_.h[t_up][None, :]) > r.max_step_mm + EPS
+        exempt = (
+            step_per_face(t_.b[t_lo][:, None], t_.h[t_lo][:, None], t_.b[t_up][None, :], t_.h[t_up][None, :])
+            > r.max_step_mm + EPS
+        )
         if not exempt.any():
             exempt = None
     if exempt is None:
         if a_lo.max() + c_up.max() <= EPS:
             return  # cannot bind
-        bld.row(f"lap_As_max_{pair}", np.concatenate([x_col[k_lo], x_col[k_up]]), np.concatenate([a_lo, c_up]),
-                -np.inf, EPS)
+        bld.row(
+            f"lap_As_max_{pair}", np.concatenate([x_col[k_lo], x_col[k_up]]), np.concatenate([a_lo, c_up]), -np.inf, EPS
+        )
         return
     sec_up = t_.section[t_up]
     for sec in np.unique(sec_up):
@@ -550,12 +475,18 @@ def lap_rows(bld: ModelBuilder, p: ScheduleProblem, pair: str, k_lo: np.ndarray,
         big_m = max(float(a_lo[held].max()), d)
         val_lo = np.where(held, a_lo, d)
         val_up = np.where(in_s, c_up, -big_m)
-        bld.row(f"lap_As_max_{pair}_s{int(sec)}", np.concatenate([x_col[k_lo], x_col[k_up]]),
-                np.concatenate([val_lo, val_up]), -np.inf, EPS)
+        bld.row(
+            f"lap_As_max_{pair}_s{int(sec)}",
+            np.concatenate([x_col[k_lo], x_col[k_up]]),
+            np.concatenate([val_lo, val_up]),
+            -np.inf,
+            EPS,
+        )
 
 
-def build_model(problem: ScheduleProblem, max_types: int | None = None,
-                reduction: Reduction | None = None) -> tuple[pulp.LpProblem, ModelVariables]:
+def build_model(
+    problem: ScheduleProblem, max_types: int | None = None, reduction: Reduction | None = None
+) -> tuple[pulp.LpProblem, ModelVariables]:
     """The compact integer program as a PuLP problem.
 
     Args:
@@ -639,4 +570,3 @@ def expand(problem: ScheduleProblem, form: Formulation, xval: np.ndarray) -> np.
             ks = prep.cell_cands(c, int(p.cand_orient[k0]))
             cand[c] = int(ks[p.cand_type[ks] == p.cand_type[k0]][0])
     return cand
-

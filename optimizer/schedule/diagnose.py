@@ -42,8 +42,9 @@ def _relaxations(rules: Rules) -> list[tuple[str, Rules]]:
     return out
 
 
-def _blocked_sentence(problem: ScheduleProblem, stack: str, lv_up: str, lv_lo: str, lower_types: np.ndarray,
-                      upper_types: np.ndarray) -> str:
+def _blocked_sentence(
+    problem: ScheduleProblem, stack: str, lv_up: str, lv_lo: str, lower_types: np.ndarray, upper_types: np.ndarray
+) -> str:
     r = problem.rules
     culprits = []
     for what, relaxed in _relaxations(r):
@@ -54,27 +55,39 @@ def _blocked_sentence(problem: ScheduleProblem, stack: str, lv_up: str, lv_lo: s
         "bars": "more bars per face or larger bars",
         "sections": "a larger section or another shape",
         "grade": "a higher concrete grade",
-        "step": ("a change of section, which is forbidden," if StepRule(r.step_rule) is StepRule.FORBID_ANY
-                 else f"a size step of more than {r.max_step_mm:g} mm per face"),
+        "step": (
+            "a change of section, which is forbidden,"
+            if StepRule(r.step_rule) is StepRule.FORBID_ANY
+            else f"a size step of more than {r.max_step_mm:g} mm per face"
+        ),
     }
     lap = r.lap_steel_ratio_max
     if culprits == ["lap"]:
-        return (f"stack {stack}: at level {lv_up} every type laps with the bars of every type allowed below it "
-                f"at {lv_lo} with more steel than {lap:g} Ac of the section above "
-                "(As below + As above; EN 1992-1-1, 9.5.2(3))")
-    also = (f" (or a lap with more steel than {lap:g} Ac of the section above, EN 1992-1-1, 9.5.2(3))"
-            if "lap" in culprits else "")
+        return (
+            f"stack {stack}: at level {lv_up} every type laps with the bars of every type allowed below it "
+            f"at {lv_lo} with more steel than {lap:g} Ac of the section above "
+            "(As below + As above; EN 1992-1-1, 9.5.2(3))"
+        )
+    also = (
+        f" (or a lap with more steel than {lap:g} Ac of the section above, EN 1992-1-1, 9.5.2(3))"
+        if "lap" in culprits
+        else ""
+    )
     culprits = [c for c in culprits if c != "lap"]
     if culprits:
         need = " or ".join(phrases[c] for c in culprits)
-        return (f"stack {stack}: level {lv_up} needs {need} than any type allowed below it at {lv_lo}{also}"
-                if "step" not in culprits or len(culprits) > 1 else
-                f"stack {stack}: level {lv_up} needs {need} from every type allowed below it at {lv_lo}{also}")
-    return (f"stack {stack}: no type at level {lv_up} keeps the continuity rules together with the types "
-            f"allowed below it at {lv_lo} (several rules combine)")
+        return (
+            f"stack {stack}: level {lv_up} needs {need} than any type allowed below it at {lv_lo}{also}"
+            if "step" not in culprits or len(culprits) > 1
+            else f"stack {stack}: level {lv_up} needs {need} from every type allowed below it at {lv_lo}{also}"
+        )
+    return (
+        f"stack {stack}: no type at level {lv_up} keeps the continuity rules together with the types "
+        f"allowed below it at {lv_lo} (several rules combine)"
+    )
 
 
-def diagnose(problem: ScheduleProblem, time_limit_s: float = 30.0) -> list[str]:
+def diagnose(problem: ScheduleProblem, time_limit_s: float = 30.0) -> list[str]:  # noqa: PLR0912, PLR0915 - one branch per rule it tries alone
     """Reasons why the problem has no schedule (empty when none is found).
 
     Args:
@@ -90,14 +103,16 @@ def diagnose(problem: ScheduleProblem, time_limit_s: float = 30.0) -> list[str]:
     empty_cells = set()
     for c in range(p.n_cells):
         stack, level = p.cell_names[c]
-        ks = prep.order[prep.start[c]:prep.start[c + 1]]
+        ks = prep.order[prep.start[c] : prep.start[c + 1]]
         if len(ks) == 0:
             out.append(f"stack {stack}: level {level} has no type that passes its checks")
             empty_cells.add(c)
             continue
         if c in prep.pinned and not (p.cand_type[ks] == prep.pinned[c]).any():
-            out.append(f"stack {stack}: level {level} is pinned to {p.types.mark[prep.pinned[c]]}, "
-                       "which does not pass its checks there")
+            out.append(
+                f"stack {stack}: level {level} is pinned to {p.types.mark[prep.pinned[c]]}, "
+                "which does not pass its checks there"
+            )
             empty_cells.add(c)
     m = run_states(p)
     stack_ok: dict[int, bool] = {}
@@ -124,19 +139,31 @@ def diagnose(problem: ScheduleProblem, time_limit_s: float = 30.0) -> list[str]:
                 climbable = True
                 break
             i = blocked
-            sentences.append(_blocked_sentence(p, name, p.cell_names[int(chain[i])][1],
-                                               p.cell_names[int(chain[i - 1])][1], levels[i - 1].types[reach],
-                                               levels[i].types))
+            sentences.append(
+                _blocked_sentence(
+                    p,
+                    name,
+                    p.cell_names[int(chain[i])][1],
+                    p.cell_names[int(chain[i - 1])][1],
+                    levels[i - 1].types[reach],
+                    levels[i].types,
+                )
+            )
         if not climbable:
-            out.append(sentences[0] if len(set(sentences)) == 1 else
-                       " ; ".join(f"{sen} (orientation {o})" for o, sen in enumerate(sentences)))
+            out.append(
+                sentences[0]
+                if len(set(sentences)) == 1
+                else " ; ".join(f"{sen} (orientation {o})" for o, sen in enumerate(sentences))
+            )
             stack_ok[s] = False
             continue
         if m > 1:
             feasible = any(levels_dp(p, levels, m)[1] is not None for levels in unit.orients.values())
             if not feasible:
-                out.append(f"stack {name}: no schedule holds each section for at least {m} storeys between "
-                           f"levels {p.cell_names[int(chain[0])][1]} and {p.cell_names[int(chain[-1])][1]}")
+                out.append(
+                    f"stack {name}: no schedule holds each section for at least {m} storeys between "
+                    f"levels {p.cell_names[int(chain[0])][1]} and {p.cell_names[int(chain[-1])][1]}"
+                )
                 stack_ok[s] = False
                 continue
         stack_ok[s] = True
@@ -162,9 +189,11 @@ def diagnose(problem: ScheduleProblem, time_limit_s: float = 30.0) -> list[str]:
             if first_empty is not None:
                 out.append(f"stacks {names} (grouped): no type is feasible in all of them at level {first_empty}")
             else:
-                out.append(f"stacks {names} (grouped): each is buildable alone but no single schedule fits all "
-                           f"of them from level {p.cell_names[int(unit.cells[0, 0])][1]} to "
-                           f"{p.cell_names[int(unit.cells[-1, 0])][1]}")
+                out.append(
+                    f"stacks {names} (grouped): each is buildable alone but no single schedule fits all "
+                    f"of them from level {p.cell_names[int(unit.cells[0, 0])][1]} to "
+                    f"{p.cell_names[int(unit.cells[-1, 0])][1]}"
+                )
     if out:
         return out
     out += _cap_findings(p, time_limit_s)
@@ -177,10 +206,16 @@ def _cap_findings(p: ScheduleProblem, time_limit_s: float) -> list[str]:
     found = []
     zero = np.zeros(len(p.cand_cell))
     for what, cap, rules in (
-        ("types", r.max_types, replace(r, max_types=None, max_sections=None, price_per_type=1.0,
-                                       price_per_section=0.0)),
-        ("sections", r.max_sections, replace(r, max_types=None, max_sections=None, price_per_type=0.0,
-                                             price_per_section=1.0)),
+        (
+            "types",
+            r.max_types,
+            replace(r, max_types=None, max_sections=None, price_per_type=1.0, price_per_section=0.0),
+        ),
+        (
+            "sections",
+            r.max_sections,
+            replace(r, max_types=None, max_sections=None, price_per_type=0.0, price_per_section=1.0),
+        ),
     ):
         if cap is None:
             continue

@@ -104,8 +104,15 @@ def stack_optimum(problem: ScheduleProblem, allowed_types: np.ndarray | None = N
         paths[ui] = mat
     cand = _assemble(problem, prep, paths)
     fig = figures(problem, cand)
-    return Schedule(cand=cand, status=Status.HEURISTIC, objective=fig.objective, bound=-np.inf, gap=np.inf,
-                    solver="stack shortest paths", seconds=time.perf_counter() - t0)
+    return Schedule(
+        cand=cand,
+        status=Status.HEURISTIC,
+        objective=fig.objective,
+        bound=-np.inf,
+        gap=np.inf,
+        solver="stack shortest paths",
+        seconds=time.perf_counter() - t0,
+    )
 
 
 def restrict(problem: ScheduleProblem, per_cell: int) -> tuple[ScheduleProblem, np.ndarray]:
@@ -125,14 +132,26 @@ def restrict(problem: ScheduleProblem, per_cell: int) -> tuple[ScheduleProblem, 
     for c, _t in problem.rules.pinned:
         keep[problem.cand_cell == int(c)] = True
     idx = np.flatnonzero(keep)
-    sub = replace(problem, cand_cell=problem.cand_cell[idx], cand_type=problem.cand_type[idx],
-                  cand_orient=problem.cand_orient[idx], steel_kg=problem.steel_kg[idx], cost=problem.cost[idx],
-                  carbon=problem.carbon[idx], utilisation=problem.utilisation[idx])
+    sub = replace(
+        problem,
+        cand_cell=problem.cand_cell[idx],
+        cand_type=problem.cand_type[idx],
+        cand_orient=problem.cand_orient[idx],
+        steel_kg=problem.steel_kg[idx],
+        cost=problem.cost[idx],
+        carbon=problem.carbon[idx],
+        utilisation=problem.utilisation[idx],
+    )
     return sub, idx
 
 
-def rationalise(problem: ScheduleProblem, max_types: int | None = None, max_sections: int | None = None,
-                time_limit_s: float = 60.0, per_cell: int | None = None) -> Schedule | None:
+def rationalise(  # noqa: PLR0912, PLR0915 - greedy phases of the rationalisation in order
+    problem: ScheduleProblem,
+    max_types: int | None = None,
+    max_sections: int | None = None,
+    time_limit_s: float = 60.0,
+    per_cell: int | None = None,
+) -> Schedule | None:
     """A feasible rationalised schedule by greedy reduction of the type set (warm start for the integer program).
 
     Start from every stack on its own best path; then repeatedly drop the type
@@ -267,8 +286,15 @@ def rationalise(problem: ScheduleProblem, max_types: int | None = None, max_sect
         return None
     cand = _assemble(problem, prep, paths)
     fig = figures(problem, cand)
-    return Schedule(cand=cand, status=Status.HEURISTIC, objective=fig.objective, bound=-np.inf, gap=np.inf,
-                    solver="greedy type reduction", seconds=time.perf_counter() - t0)
+    return Schedule(
+        cand=cand,
+        status=Status.HEURISTIC,
+        objective=fig.objective,
+        bound=-np.inf,
+        gap=np.inf,
+        solver="greedy type reduction",
+        seconds=time.perf_counter() - t0,
+    )
 
 
 def cellwise_lower_bound(problem: ScheduleProblem) -> LowerBound:
@@ -301,7 +327,7 @@ def _level_rank(problem: ScheduleProblem, chains: list[np.ndarray]) -> dict[str,
     return {name: i for i, name in enumerate(order)}
 
 
-def baseline(problem: ScheduleProblem, band: int = 4, n_groups: int = 3) -> Schedule | None:
+def baseline(problem: ScheduleProblem, band: int = 4, n_groups: int = 3) -> Schedule | None:  # noqa: PLR0912, PLR0915 - the rule-of-thumb schedule, band by band
     """The rule-of-thumb schedule: stacks grouped by load, one type per group per band of storeys.
 
     Stacks are ranked by the demand at their foot (the weight of the lightest
@@ -324,8 +350,7 @@ def baseline(problem: ScheduleProblem, band: int = 4, n_groups: int = 3) -> Sche
     prep = Prepared(problem)
     chains = prep.chains
     rank = _level_rank(problem, chains)
-    foot = np.array([
-        min((prep.weight[k] for k in prep.cell_cands(int(ch[0]), 0)), default=np.inf) for ch in chains])
+    foot = np.array([min((prep.weight[k] for k in prep.cell_cands(int(ch[0]), 0)), default=np.inf) for ch in chains])
     order = np.argsort(foot, kind="stable")
     groups = [g for g in np.array_split(order, max(1, min(n_groups, len(chains)))) if len(g)]
     cand = np.full(problem.n_cells, -1, dtype=int)
@@ -390,8 +415,15 @@ def baseline(problem: ScheduleProblem, band: int = 4, n_groups: int = 3) -> Sche
                 ks = prep.cell_cands(c, 0)
                 cand[c] = int(ks[problem.cand_type[ks] == t][0])
     fig = figures(problem, cand)
-    return Schedule(cand=cand, status=Status.BASELINE, objective=fig.objective, bound=-np.inf, gap=np.inf,
-                    solver="rule of thumb", seconds=time.perf_counter() - t0)
+    return Schedule(
+        cand=cand,
+        status=Status.BASELINE,
+        objective=fig.objective,
+        bound=-np.inf,
+        gap=np.inf,
+        solver="rule of thumb",
+        seconds=time.perf_counter() - t0,
+    )
 
 
 def figures(problem: ScheduleProblem, cand: np.ndarray) -> Figures:
@@ -415,11 +447,20 @@ def figures(problem: ScheduleProblem, cand: np.ndarray) -> Figures:
     r = problem.rules
     base = {Objective.STEEL: steel, Objective.COST: cost, Objective.CARBON: carbon}[Objective(problem.objective)]
     obj = base + r.price_per_type * n_types + r.price_per_section * n_sections
-    return Figures(steel_kg=steel, starter_kg=starter, cost=cost, carbon=carbon, n_types=n_types,
-                   n_sections=n_sections, objective=obj)
+    return Figures(
+        steel_kg=steel,
+        starter_kg=starter,
+        cost=cost,
+        carbon=carbon,
+        n_types=n_types,
+        n_sections=n_sections,
+        objective=obj,
+    )
 
 
 def figure_notes(fig: Figures) -> tuple[str, ...]:
     """The figures of a schedule as a note: steel (with starter bars), cost, carbon, types and sections."""
-    return (f"steel {fig.steel_kg:.1f} kg (starter bars {fig.starter_kg:.1f} kg), cost {fig.cost:.1f}, "
-            f"carbon {fig.carbon:.1f} kgCO2e, {fig.n_types} types, {fig.n_sections} sections",)
+    return (
+        f"steel {fig.steel_kg:.1f} kg (starter bars {fig.starter_kg:.1f} kg), cost {fig.cost:.1f}, "
+        f"carbon {fig.carbon:.1f} kgCO2e, {fig.n_types} types, {fig.n_sections} sections",
+    )

@@ -51,8 +51,16 @@ class Counting:
         cap_t = max_types if max_types is not None else r.max_types
         secs = r.max_sections is not None or r.price_per_section > 0
         types = cap_t is not None or r.price_per_type > 0 or secs
-        return cls(types, secs, r.max_grades is not None, cap_t, r.max_sections, r.max_grades,
-                   float(r.price_per_type), float(r.price_per_section))
+        return cls(
+            types,
+            secs,
+            r.max_grades is not None,
+            cap_t,
+            r.max_sections,
+            r.max_grades,
+            float(r.price_per_type),
+            float(r.price_per_section),
+        )
 
     def price_of(self, problem: ScheduleProblem, types: set[int]) -> float:
         """Prices of a set of types and of their sections."""
@@ -106,7 +114,7 @@ class Master:
         self.columns.append(col)
         return True
 
-    def formulation(self, integer: bool) -> tuple[Formulation, MasterRows]:
+    def formulation(self, integer: bool) -> tuple[Formulation, MasterRows]:  # noqa: PLR0912 - one branch per row family of the master
         """The master over the columns so far, with binary (``integer``) or continuous path and type variables."""
         p = self.model.problem
         cnt = self.counting
@@ -119,8 +127,7 @@ class Master:
             by_unit.setdefault(col.unit, []).append(i)
         art = None
         if not integer and (cnt.cap_t is not None or cnt.cap_s is not None or cnt.cap_g is not None):
-            art = bld.col("cap_slack", ("art",), ub=np.inf, integer=False,
-                          cost=1.0 if self.phase_one else self.big_m)
+            art = bld.col("cap_slack", ("art",), ub=np.inf, integer=False, cost=1.0 if self.phase_one else self.big_m)
             rows.art = art
         for u, idx in by_unit.items():
             rows.conv[u] = bld.n_rows
@@ -140,20 +147,36 @@ class Master:
             if cnt.cap_t is not None:
                 extra = [art] if art is not None else []
                 rows.cap_t = bld.n_rows
-                bld.row("cap_types", [rows.y[t] for t in used] + extra, [1.0] * len(used) + [-1.0] * len(extra),
-                        -np.inf, float(cnt.cap_t))
+                bld.row(
+                    "cap_types",
+                    [rows.y[t] for t in used] + extra,
+                    [1.0] * len(used) + [-1.0] * len(extra),
+                    -np.inf,
+                    float(cnt.cap_t),
+                )
             if cnt.sections:
                 sec = p.types.section
-                s_col = {int(s): bld.col(f"section_{int(s)}", ("sec", int(s)), cost=cnt.price_s * one, integer=integer)
-                         for s in np.unique(sec[used])} if used else {}
+                s_col = (
+                    {
+                        int(s): bld.col(f"section_{int(s)}", ("sec", int(s)), cost=cnt.price_s * one, integer=integer)
+                        for s in np.unique(sec[used])
+                    }
+                    if used
+                    else {}
+                )
                 rows.sec = s_col
                 for t in used:
                     bld.row(f"section_link_t{t}", [rows.y[t], s_col[int(sec[t])]], [1.0, -1.0], -np.inf, 0.0)
                 if cnt.cap_s is not None:
                     extra = [art] if art is not None else []
                     rows.cap_s = bld.n_rows
-                    bld.row("cap_sections", list(s_col.values()) + extra,
-                            [1.0] * len(s_col) + [-1.0] * len(extra), -np.inf, float(cnt.cap_s))
+                    bld.row(
+                        "cap_sections",
+                        list(s_col.values()) + extra,
+                        [1.0] * len(s_col) + [-1.0] * len(extra),
+                        -np.inf,
+                        float(cnt.cap_s),
+                    )
         if cnt.grades:
             gs = sorted({g for col in self.columns for g in col.grades})
             g_col = {g: bld.col(f"grade_{g}", ("g", g), integer=integer) for g in gs}
@@ -168,8 +191,13 @@ class Master:
             rows.grade = g_col
             extra = [art] if art is not None else []
             rows.cap_g = bld.n_rows
-            bld.row("cap_grades", list(g_col.values()) + extra, [1.0] * len(g_col) + [-1.0] * len(extra),
-                    -np.inf, float(cnt.cap_g))
+            bld.row(
+                "cap_grades",
+                list(g_col.values()) + extra,
+                [1.0] * len(g_col) + [-1.0] * len(extra),
+                -np.inf,
+                float(cnt.cap_g),
+            )
         form = bld.finish(np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64), Reduction.none(0, 0))
         return form, rows
 
@@ -179,11 +207,16 @@ class Master:
         h = build_highs(form, threads)
         h.run()
         sol = h.getSolution()
-        return (float(h.getInfo().objective_function_value), (np.asarray(sol.row_dual), np.asarray(sol.col_dual)),
-                rows, np.asarray(sol.col_value))
+        return (
+            float(h.getInfo().objective_function_value),
+            (np.asarray(sol.row_dual), np.asarray(sol.col_dual)),
+            rows,
+            np.asarray(sol.col_value),
+        )
 
-    def penalties(self, duals: tuple[np.ndarray, np.ndarray], rows: MasterRows
-                  ) -> tuple[dict[int, np.ndarray], dict[int, np.ndarray], dict[int, float]]:
+    def penalties(
+        self, duals: tuple[np.ndarray, np.ndarray], rows: MasterRows
+    ) -> tuple[dict[int, np.ndarray], dict[int, np.ndarray], dict[int, float]]:
         """Entry costs of types and grades per unit, and the convexity duals.
 
         A linking row in the master gives its dual. Rows not (yet) in the master share what opening their type
@@ -243,13 +276,13 @@ def y_part(model: PathModel, counting: Counting, pen: dict[int, np.ndarray], gpe
         neg = np.flatnonzero(coef < 0.0)
         if not counting.sections:
             vals = np.sort(coef[neg])
-            value += float(vals[:counting.cap_t].sum() if counting.cap_t is not None else vals.sum())
+            value += float(vals[: counting.cap_t].sum() if counting.cap_t is not None else vals.sum())
         elif len(neg):
             value += _types_and_sections(p, counting, neg, coef[neg])
     if counting.grades:
         gcoef = -np.sum([gpen[u] for u in model.units], axis=0)
         vals = np.sort(gcoef[gcoef < 0.0])
-        value += float(vals[:counting.cap_g].sum())
+        value += float(vals[: counting.cap_g].sum())
     return value
 
 
@@ -260,17 +293,20 @@ def _types_and_sections(problem: ScheduleProblem, counting: Counting, types: np.
     n_y, n_s = len(types), len(secs)
     h = new_highs()
     h.addVars(n_y + n_s, np.zeros(n_y + n_s), np.ones(n_y + n_s))
-    h.changeColsCost(n_y + n_s, np.arange(n_y + n_s, dtype=np.int32),
-                     np.concatenate([coef, np.full(n_s, counting.price_s)]))
-    h.changeColsIntegrality(n_y + n_s, np.arange(n_y + n_s, dtype=np.int32),
-                            np.full(n_y + n_s, highspy.HighsVarType.kInteger))
+    h.changeColsCost(
+        n_y + n_s, np.arange(n_y + n_s, dtype=np.int32), np.concatenate([coef, np.full(n_s, counting.price_s)])
+    )
+    h.changeColsIntegrality(
+        n_y + n_s, np.arange(n_y + n_s, dtype=np.int32), np.full(n_y + n_s, highspy.HighsVarType.kInteger)
+    )
     for i in range(n_y):
         h.addRow(-highspy.kHighsInf, 0.0, 2, np.array([i, n_y + sec_of[i]], dtype=np.int32), np.array([1.0, -1.0]))
     if counting.cap_t is not None:
         h.addRow(-highspy.kHighsInf, float(counting.cap_t), n_y, np.arange(n_y, dtype=np.int32), np.ones(n_y))
     if counting.cap_s is not None:
-        h.addRow(-highspy.kHighsInf, float(counting.cap_s), n_s, np.arange(n_y, n_y + n_s, dtype=np.int32),
-                 np.ones(n_s))
+        h.addRow(
+            -highspy.kHighsInf, float(counting.cap_s), n_s, np.arange(n_y, n_y + n_s, dtype=np.int32), np.ones(n_s)
+        )
     h.run()
     info = h.getInfo()
     # the MIP's dual bound is a valid lower bound even if it stopped early
@@ -314,8 +350,15 @@ def _master_start(master: Master, incumbent: dict[int, Column] | None, form: For
     return start
 
 
-def integer_master(master: Master, incumbent: dict[int, Column] | None, solver: str, limit: float, gap_rel: float,
-                   threads: int | None, notes: list[str]) -> dict[int, Column] | None:
+def integer_master(
+    master: Master,
+    incumbent: dict[int, Column] | None,
+    solver: str,
+    limit: float,
+    gap_rel: float,
+    threads: int | None,
+    notes: list[str],
+) -> dict[int, Column] | None:
     """The master with binary variables over the generated paths; the chosen column of every unit.
 
     Args:
@@ -336,10 +379,13 @@ def integer_master(master: Master, incumbent: dict[int, Column] | None, solver: 
         # objective that was not the start's (measured on the demo tower); the master is small enough without
         out = solve_highspy(form, None, limit, gap_rel * 0.1, threads)
     else:
-        out = solve_pulp(master.model.problem, form, _master_start(master, incumbent, form), "cbc", limit,
-                         gap_rel * 0.1, threads)
-    notes.append(f"integer master: {form.n_binaries} binaries, {form.n_rows} rows; {out.status.value} in "
-                 f"{out.seconds:.1f} s, value {out.objective:.6g}")
+        out = solve_pulp(
+            master.model.problem, form, _master_start(master, incumbent, form), "cbc", limit, gap_rel * 0.1, threads
+        )
+    notes.append(
+        f"integer master: {form.n_binaries} binaries, {form.n_rows} rows; {out.status.value} in "
+        f"{out.seconds:.1f} s, value {out.objective:.6g}"
+    )
     if out.xval is None:
         return None
     cols = {}

@@ -133,8 +133,9 @@ class PathModel:
             self.gavail[ui] = np.zeros(len(grades), dtype=bool)
             self.gavail[ui][np.unique(self.gid[ts])] = True
         self.type_count = np.maximum(np.sum(list(self.avail.values()), axis=0), 1) if self.units else np.ones(n_t)
-        self.grade_count = (np.maximum(np.sum(list(self.gavail.values()), axis=0), 1) if self.units
-                            else np.ones(len(grades)))
+        self.grade_count = (
+            np.maximum(np.sum(list(self.gavail.values()), axis=0), 1) if self.units else np.ones(len(grades))
+        )
 
     def _chain(self, ui: int, o: int, levels: list[Level]) -> Chain:
         mult = self.mult[ui]
@@ -162,8 +163,9 @@ class PathModel:
             if len(ch.typ) == 0:
                 continue
             w, st = (ch.w, ch.st) if weights else (np.zeros_like(ch.w), np.zeros_like(ch.st))
-            f, back, bs = stackdp.forward(ch.off, ch.typ, w, st, self.ok_up, self.big_up, self.sec, self.gid,
-                                          pen, gpen, self.m)
+            f, back, bs = stackdp.forward(
+                ch.off, ch.typ, w, st, self.ok_up, self.big_up, self.sec, self.gid, pen, gpen, self.m
+            )
             val, rows = stackdp.trace(ch.off, f, back, bs)
             if rows is not None and val < best[0]:
                 best = (val, ch, rows)
@@ -179,8 +181,9 @@ class PathModel:
         if len(rows) > 1:
             big = self.big_up[typ[1:], typ[:-1]]
             cost += float(ch.st[rows[1:]][big].sum())
-        return Column(ch.unit, ch.cands[rows], cost, tuple(np.unique(typ).tolist()),
-                       tuple(np.unique(self.gid[typ]).tolist()))
+        return Column(
+            ch.unit, ch.cands[rows], cost, tuple(np.unique(typ).tolist()), tuple(np.unique(self.gid[typ]).tolist())
+        )
 
     def column_of(self, ui: int, cand: np.ndarray) -> Column | None:
         """The column of a unit's part of a full schedule.
@@ -196,7 +199,7 @@ class PathModel:
             return None
         rows = np.empty(len(first), dtype=np.int64)
         for i, k in enumerate(first):
-            seg = ch.cands[ch.off[i]:ch.off[i + 1], 0]
+            seg = ch.cands[ch.off[i] : ch.off[i + 1], 0]
             hit = np.flatnonzero(seg == k)
             if len(hit) == 0:
                 return None
@@ -219,9 +222,10 @@ class PathModel:
             if len(ch.typ) == 0:
                 out.append(np.zeros(0))
                 continue
-            f, _, _ = stackdp.forward(ch.off, ch.typ, ch.w, ch.st, self.ok_up, self.big_up, self.sec, self.gid,
-                                      pen, gpen, self.m)
-            top = f[ch.off[-2]:ch.off[-1]]
+            f, _, _ = stackdp.forward(
+                ch.off, ch.typ, ch.w, ch.st, self.ok_up, self.big_up, self.sec, self.gid, pen, gpen, self.m
+            )
+            top = f[ch.off[-2] : ch.off[-1]]
             if top.size:
                 best = min(best, float(top.min()))
             b = stackdp.backward(ch.off, ch.typ, ch.w, ch.st, self.ok_lo, self.big_lo, self.gid, pen, gpen)
@@ -251,4 +255,3 @@ class PathModel:
                     ks = self.prep.cell_cands(int(c), int(p.cand_orient[k0]))
                     cand[c] = int(ks[p.cand_type[ks] == p.cand_type[k0]][0])
         return cand
-

@@ -60,11 +60,20 @@ class State:
         return max(0.0, (self.value - self.bound) / max(abs(self.value), 1e-9))
 
 
-def _no_schedule(problem: ScheduleProblem, status: Status, bound: float, solver: str, t_all: float,
-                 notes: list[str]) -> Schedule:
+def _no_schedule(
+    problem: ScheduleProblem, status: Status, bound: float, solver: str, t_all: float, notes: list[str]
+) -> Schedule:
     """A result without a schedule (infeasible, or nothing found in time)."""
-    return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=status, objective=np.inf, bound=bound,
-                    gap=np.inf, solver=solver, seconds=time.perf_counter() - t_all, notes=tuple(notes))
+    return Schedule(
+        cand=np.full(problem.n_cells, -1, dtype=int),
+        status=status,
+        objective=np.inf,
+        bound=bound,
+        gap=np.inf,
+        solver=solver,
+        seconds=time.perf_counter() - t_all,
+        notes=tuple(notes),
+    )
 
 
 def _unit_name(model: PathModel, ui: int) -> str:
@@ -76,8 +85,9 @@ def _schedule_value(model: PathModel, counting: Counting, columns: dict[int, Col
     return sum(col.cost for col in columns.values()) + counting.price_of(model.problem, used)
 
 
-def _reroute(model: PathModel, allowed: set[int], units: list[int], pool: ThreadPoolExecutor
-             ) -> dict[int, Column] | None:
+def _reroute(
+    model: PathModel, allowed: set[int], units: list[int], pool: ThreadPoolExecutor
+) -> dict[int, Column] | None:
     """Every listed unit on its cheapest path using only the allowed types (None if one has none)."""
     n_t = len(model.problem.types)
     pen = np.full(n_t, np.inf)
@@ -89,8 +99,15 @@ def _reroute(model: PathModel, allowed: set[int], units: list[int], pool: Thread
     return {u: col for u, (_, col) in zip(units, found, strict=True)}
 
 
-def _local_search(model: PathModel, counting: Counting, columns: dict[int, Column], pool: ThreadPoolExecutor,
-                  deadline: float, add_from: list[int], master: Master) -> dict[int, Column]:
+def _local_search(  # noqa: PLR0912 - drop, add and swap moves
+    model: PathModel,
+    counting: Counting,
+    columns: dict[int, Column],
+    pool: ThreadPoolExecutor,
+    deadline: float,
+    add_from: list[int],
+    master: Master,
+) -> dict[int, Column]:
     """Improve a schedule: re-route over its type set, then drop, add or swap single types while that pays.
 
     Every move is exact for the units it touches (their cheapest paths over the new type set); a move is
@@ -143,8 +160,10 @@ def _local_search(model: PathModel, counting: Counting, columns: dict[int, Colum
             for t_old in sorted(used()) if t_new not in used() else []:
                 if time.perf_counter() > deadline:
                     break
-                units = sorted({u for u, col in cur.items() if t_old in col.types}
-                               | {u for u in model.units if t_new in has_type[u]})
+                units = sorted(
+                    {u for u, col in cur.items() if t_old in col.types}
+                    | {u for u in model.units if t_new in has_type[u]}
+                )
                 found = better((used() - {t_old}) | {t_new}, units)
                 if found is not None:
                     cur, improved = found, True
@@ -181,8 +200,16 @@ class PathSearch:
         result: the final result when the search proved that no schedule exists, else None.
     """
 
-    def __init__(self, problem: ScheduleProblem, solver: str, time_limit_s: float, gap_rel: float,
-                 max_types: int | None, progress: Callable[[str], None] | None, threads: int | None) -> None:
+    def __init__(
+        self,
+        problem: ScheduleProblem,
+        solver: str,
+        time_limit_s: float,
+        gap_rel: float,
+        max_types: int | None,
+        progress: Callable[[str], None] | None,
+        threads: int | None,
+    ) -> None:
         self.say = progress or (lambda _m: None)
         self.t_all = time.perf_counter()
         self.time_limit_s = time_limit_s
@@ -196,8 +223,10 @@ class PathSearch:
         self.model = PathModel(problem)
         n_units = len(self.model.units)
         merged = len(self.model.prep.units) - n_units
-        self.notes = [f"path formulation: {n_units} units ({merged} identical stacks merged), {self.model.n_rows} "
-                      f"candidate rows; tables in {time.perf_counter() - self.t_all:.1f} s"]
+        self.notes = [
+            f"path formulation: {n_units} units ({merged} identical stacks merged), {self.model.n_rows} "
+            f"candidate rows; tables in {time.perf_counter() - self.t_all:.1f} s"
+        ]
         self.say(self.notes[-1])
         self.label = f"path formulation (column generation; {'HiGHS' if solver == 'highs' else 'CBC'} master)"
         self.state = State()
@@ -230,9 +259,11 @@ class PathSearch:
                 return
             t_cg = time.perf_counter()
             self.generate(self.t_all + 0.6 * self.time_limit_s)
-            self.notes.append(f"column generation: {self.rounds} rounds, {len(self.master.columns)} paths, "
-                              f"relaxation {self.lp_value:.6g}, bound {self.state.bound:.6g} in "
-                              f"{time.perf_counter() - t_cg:.1f} s")
+            self.notes.append(
+                f"column generation: {self.rounds} rounds, {len(self.master.columns)} paths, "
+                f"relaxation {self.lp_value:.6g}, bound {self.state.bound:.6g} in "
+                f"{time.perf_counter() - t_cg:.1f} s"
+            )
             self.say(self.notes[-1])
             support = self._after_generation()
             self._integer_rounds(support)
@@ -241,8 +272,10 @@ class PathSearch:
         art = float(self.x_lp[self.rows_lp.art]) if self.rows_lp is not None and self.rows_lp.art is not None else 0.0
         if self.state.columns is None and self.converged and art > 1e-6:
             # the relaxation over all paths needs the cap slack: no schedule keeps the caps
-            self.notes.append("the caps cannot be met: the relaxation over all paths needs the cap slack "
-                              "(see optimizer.schedule.diagnose)")
+            self.notes.append(
+                "the caps cannot be met: the relaxation over all paths needs the cap slack "
+                "(see optimizer.schedule.diagnose)"
+            )
             self.result = _no_schedule(self.problem, Status.INFEASIBLE, np.inf, self.label, self.t_all, self.notes)
 
     def _first_paths(self, warm_start: np.ndarray | None) -> Schedule | None:
@@ -252,8 +285,14 @@ class PathSearch:
         zero_t, zero_g = np.zeros(n_t), np.zeros(n_g)
         first = list(self.pool.map(lambda u: model.price(u, zero_t, zero_g), model.units))
         if any(col is None for _, col in first):
-            return _no_schedule(problem, Status.INFEASIBLE, np.inf, "path formulation", self.t_all,
-                                ["a stack has no buildable path (see optimizer.schedule.diagnose)"])
+            return _no_schedule(
+                problem,
+                Status.INFEASIBLE,
+                np.inf,
+                "path formulation",
+                self.t_all,
+                ["a stack has no buildable path (see optimizer.schedule.diagnose)"],
+            )
         free_cols = {u: col for u, (_, col) in zip(model.units, first, strict=True)}
         self.scale = max(1.0, sum(col.cost for col in free_cols.values()))
         self.master = Master(model, counting, big_m=10.0 * self.scale + 1e6)
@@ -272,7 +311,8 @@ class PathSearch:
                     state.value, state.columns = v, cols  # type: ignore[assignment]
         # every schedule costs at least its units' own optima plus one type and one section
         state.bound = sum(col.cost for col in free_cols.values()) + (
-            counting.price_t * counting.types + counting.price_s * counting.sections)
+            counting.price_t * counting.types + counting.price_s * counting.sections
+        )
         return None
 
     def _caps(self) -> Schedule | None:
@@ -285,28 +325,36 @@ class PathSearch:
         why = []
         u_t = max(need_t, key=need_t.get)
         if counting.cap_t is not None and need_t[u_t] > counting.cap_t:
-            why.append(f"stack {_unit_name(model, u_t)} cannot be built with fewer than {need_t[u_t]} types "
-                       f"(cap {counting.cap_t})")
+            why.append(
+                f"stack {_unit_name(model, u_t)} cannot be built with fewer than {need_t[u_t]} types "
+                f"(cap {counting.cap_t})"
+            )
         u_g = max(need_g, key=need_g.get)
         if counting.cap_g is not None and need_g[u_g] > counting.cap_g:
-            why.append(f"stack {_unit_name(model, u_g)} cannot be built with fewer than {need_g[u_g]} concrete "
-                       f"grades (cap {counting.cap_g})")
+            why.append(
+                f"stack {_unit_name(model, u_g)} cannot be built with fewer than {need_g[u_g]} concrete "
+                f"grades (cap {counting.cap_g})"
+            )
         if why:
-            return _no_schedule(self.problem, Status.INFEASIBLE, np.inf, "path formulation", self.t_all,
-                                self.notes + why)
+            return _no_schedule(
+                self.problem, Status.INFEASIBLE, np.inf, "path formulation", self.t_all, self.notes + why
+            )
         t1 = time.perf_counter()
         ok = _phase_one(model, self.master, self.pool, self.t_all + 0.3 * self.time_limit_s)
-        self.notes.append(f"phase one (paths within the caps): {ok} in {time.perf_counter() - t1:.1f} s, "
-                          f"{len(self.master.columns)} paths")
+        self.notes.append(
+            f"phase one (paths within the caps): {ok} in {time.perf_counter() - t1:.1f} s, "
+            f"{len(self.master.columns)} paths"
+        )
         self.say(self.notes[-1])
         if ok is False:
-            self.notes.append("the caps cannot be met: even a mixture of all buildable paths breaks them "
-                              "(see optimizer.schedule.diagnose)")
-            return _no_schedule(self.problem, Status.INFEASIBLE, np.inf, "path formulation", self.t_all,
-                                self.notes)
+            self.notes.append(
+                "the caps cannot be met: even a mixture of all buildable paths breaks them "
+                "(see optimizer.schedule.diagnose)"
+            )
+            return _no_schedule(self.problem, Status.INFEASIBLE, np.inf, "path formulation", self.t_all, self.notes)
         return None
 
-    def generate(self, until: float) -> None:
+    def generate(self, until: float) -> None:  # noqa: PLR0912 - column generation rounds: price, add, stabilise, stop
         """Rounds of column generation until the relaxation meets the bound, nothing prices out, or ``until``."""
         model, master, state, counting = self.model, self.master, self.state, self.counting
         while True:
@@ -316,18 +364,18 @@ class PathSearch:
             integral = integral_columns(master, self.rows_lp, self.x_lp)
             if integral is not None:  # the relaxation chose one whole path per unit: a schedule
                 v = _schedule_value(model, counting, integral)
-                if v < state.value - 1e-9 and counting.allows(self.problem, {t for c in integral.values()
-                                                                             for t in c.types}):
+                if v < state.value - 1e-9 and counting.allows(
+                    self.problem, {t for c in integral.values() for t in c.types}
+                ):
                     state.value, state.columns = v, integral
             added = 0
-            for mix in ((_SMOOTH, 0.0) if self.center is not None else (0.0,)):
+            for mix in (_SMOOTH, 0.0) if self.center is not None else (0.0,):
                 if mix > 0.0 and self.center is not None:
                     pen = {u: mix * self.center[0][u] + (1.0 - mix) * pen_lp[u] for u in model.units}
                     gpen = {u: mix * self.center[1][u] + (1.0 - mix) * gpen_lp[u] for u in model.units}
                 else:
                     pen, gpen = pen_lp, gpen_lp
-                priced = list(self.pool.map(lambda u, pen=pen, gpen=gpen: model.price(u, pen[u], gpen[u]),
-                                            model.units))
+                priced = list(self.pool.map(lambda u, pen=pen, gpen=gpen: model.price(u, pen[u], gpen[u]), model.units))
                 lagr = sum(val for val, _ in priced) + y_part(model, counting, pen, gpen)
                 if lagr > state.bound:
                     state.bound = lagr
@@ -335,15 +383,21 @@ class PathSearch:
                 for u, (_, col) in zip(model.units, priced, strict=True):
                     if col is None:
                         continue
-                    rc = col.cost - alpha[u] + sum(pen_lp[u][t] for t in col.types) + sum(
-                        gpen_lp[u][g] for g in col.grades)
+                    rc = (
+                        col.cost
+                        - alpha[u]
+                        + sum(pen_lp[u][t] for t in col.types)
+                        + sum(gpen_lp[u][g] for g in col.grades)
+                    )
                     if rc < -1e-7 * self.scale and master.add(col):
                         added += 1
                 if added:
                     break  # otherwise the smoothed duals mispriced: price again at the relaxation's own
             gap_lp = (self.lp_value - state.bound) / max(abs(self.lp_value), 1e-9)
-            self.say(f"round {self.rounds}: relaxation {self.lp_value:.6g}, bound {state.bound:.6g}, {added} paths "
-                     f"added, {model.n_rows} rows")
+            self.say(
+                f"round {self.rounds}: relaxation {self.lp_value:.6g}, bound {state.bound:.6g}, {added} paths "
+                f"added, {model.n_rows} rows"
+            )
             self.converged = added == 0
             if added == 0 or gap_lp < max(1e-6, self.gap_rel / 20) or time.perf_counter() > until:
                 break
@@ -392,8 +446,15 @@ class PathSearch:
                 remaining = self.deadline - time.perf_counter()
                 if state.columns is not None and state.gap <= self.gap_rel:
                     break
-            cols = integer_master(self.master, state.columns, self.solver, min(remaining * 0.5, remaining - 0.5),
-                                  self.gap_rel, self.threads, self.notes)
+            cols = integer_master(
+                self.master,
+                state.columns,
+                self.solver,
+                min(remaining * 0.5, remaining - 0.5),
+                self.gap_rel,
+                self.threads,
+                self.notes,
+            )
             say(self.notes[-1])
             if cols is not None:
                 v = _schedule_value(model, counting, cols)
@@ -427,15 +488,32 @@ class PathSearch:
         status = status_from(True, False, gap, self.gap_rel, stopped=False)
         notes = list(self.notes)
         if status is Status.TIME_LIMIT and time.perf_counter() < self.deadline - 1.0:
-            notes.append("the gap left by the path relaxation was not closed (no branching over paths on a problem "
-                         "this large); status 'time limit' means the proof stopped, not the clock")
-        return Schedule(cand=cand, status=status, objective=fig.objective, bound=bound, gap=gap, solver=self.label,
-                        seconds=secs, notes=tuple(notes) + figure_notes(fig))
+            notes.append(
+                "the gap left by the path relaxation was not closed (no branching over paths on a problem "
+                "this large); status 'time limit' means the proof stopped, not the clock"
+            )
+        return Schedule(
+            cand=cand,
+            status=status,
+            objective=fig.objective,
+            bound=bound,
+            gap=gap,
+            solver=self.label,
+            seconds=secs,
+            notes=tuple(notes) + figure_notes(fig),
+        )
 
 
-def search_paths(problem: ScheduleProblem, solver: str = "highs", time_limit_s: float = 60.0, gap_rel: float = 0.01,
-                 max_types: int | None = None, warm_start: np.ndarray | None = None,
-                 progress: Callable[[str], None] | None = None, threads: int | None = None) -> PathSearch:
+def search_paths(
+    problem: ScheduleProblem,
+    solver: str = "highs",
+    time_limit_s: float = 60.0,
+    gap_rel: float = 0.01,
+    max_types: int | None = None,
+    warm_start: np.ndarray | None = None,
+    progress: Callable[[str], None] | None = None,
+    threads: int | None = None,
+) -> PathSearch:
     """Search for a schedule by column generation over stack paths (see the module notes).
 
     Args:
@@ -478,8 +556,9 @@ def _phase_one(model: PathModel, master: Master, pool: ThreadPoolExecutor, deadl
             if value <= 1e-9:
                 return True
             pen, gpen, alpha = master.penalties(duals, rows)
-            priced = list(pool.map(lambda u, pen=pen, gpen=gpen: model.price(u, pen[u], gpen[u], weights=False),
-                                   model.units))
+            priced = list(
+                pool.map(lambda u, pen=pen, gpen=gpen: model.price(u, pen[u], gpen[u], weights=False), model.units)
+            )
             added = 0
             for u, (val, col) in zip(model.units, priced, strict=True):
                 if col is not None and val - alpha[u] < -1e-9 and master.add(col):
@@ -515,21 +594,32 @@ def min_counts(model: PathModel, pool: ThreadPoolExecutor) -> tuple[dict[int, in
     ones_t, zero_t, ones_g, zero_g = np.ones(n_t), np.zeros(n_t), np.ones(n_g), np.zeros(n_g)
     types = list(pool.map(lambda u: model.price(u, ones_t, zero_g, weights=False)[0], model.units))
     grades = list(pool.map(lambda u: model.price(u, zero_t, ones_g, weights=False)[0], model.units))
-    return ({u: round(v) for u, v in zip(model.units, types, strict=True) if np.isfinite(v)},
-            {u: round(v) for u, v in zip(model.units, grades, strict=True) if np.isfinite(v)})
+    return (
+        {u: round(v) for u, v in zip(model.units, types, strict=True) if np.isfinite(v)},
+        {u: round(v) for u, v in zip(model.units, grades, strict=True) if np.isfinite(v)},
+    )
 
 
-def _support_sets(model: PathModel, counting: Counting, support: list[int], pool: ThreadPoolExecutor,
-                  deadline: float, max_sets: int = 200) -> dict[int, Column] | None:
+def _support_sets(
+    model: PathModel,
+    counting: Counting,
+    support: list[int],
+    pool: ThreadPoolExecutor,
+    deadline: float,
+    max_sets: int = 200,
+) -> dict[int, Column] | None:
     """The best schedule whose types are at most ``cap`` of the relaxation's most used types (every unit re-routed).
 
     All subsets of the ``cap + 6`` most used types when there are at most ``max_sets`` of them, else the most
     used ``cap`` types alone; a subset with a unit that cannot be built from it is skipped.
     """
     k = int(counting.cap_t)
-    top = support[:k + 6]
-    sets = (list(itertools.combinations(top, min(k, len(top)))) if math.comb(len(top), min(k, len(top))) <= max_sets
-            else [tuple(top[:k])])
+    top = support[: k + 6]
+    sets = (
+        list(itertools.combinations(top, min(k, len(top))))
+        if math.comb(len(top), min(k, len(top))) <= max_sets
+        else [tuple(top[:k])]
+    )
     best: tuple[float, dict[int, Column]] | None = None
     for chosen in sets:
         if time.perf_counter() > deadline:
@@ -545,8 +635,15 @@ def _support_sets(model: PathModel, counting: Counting, support: list[int], pool
     return best[1] if best is not None else None
 
 
-def prune(model: PathModel, pen: dict[int, np.ndarray], gpen: dict[int, np.ndarray], state: State,
-          pool: ThreadPoolExecutor, notes: list[str], say: Callable[[str], None]) -> None:
+def prune(
+    model: PathModel,
+    pen: dict[int, np.ndarray],
+    gpen: dict[int, np.ndarray],
+    state: State,
+    pool: ThreadPoolExecutor,
+    notes: list[str],
+    say: Callable[[str], None],
+) -> None:
     """Drop rows whose cheapest penalised path exceeds their unit's best by more than (incumbent - bound).
 
     Args:
@@ -567,7 +664,5 @@ def prune(model: PathModel, pen: dict[int, np.ndarray], gpen: dict[int, np.ndarr
     for u, (best, parts) in zip(model.units, thr, strict=True):
         keep = [x <= best + slack + 1e-7 * max(1.0, abs(state.value)) for x in parts]
         model.prune(u, keep)
-    notes.append(f"pruned {before - model.n_rows} of {before} candidate rows (reduced cost above the gap "
-                 f"{slack:.6g})")
+    notes.append(f"pruned {before - model.n_rows} of {before} candidate rows (reduced cost above the gap {slack:.6g})")
     say(notes[-1])
-

@@ -194,7 +194,7 @@ class Prepared:
 
     def cell_cands(self, c: int, orient: int | None = None) -> np.ndarray:
         """Candidate indices of cell c (of one orientation if given), sorted by type."""
-        idx = self.order[self.start[c]:self.start[c + 1]]
+        idx = self.order[self.start[c] : self.start[c + 1]]
         if orient is not None:
             idx = idx[self.problem.cand_orient[idx] == orient]
         if c in self.pinned:
@@ -247,8 +247,11 @@ class Prepared:
         return units, problems
 
 
-def group_problems(problem: ScheduleProblem, chains: list[np.ndarray],
-                   groups: tuple[tuple[str, ...], ...] | list[tuple[str, ...]] | None = None) -> list[str]:
+def group_problems(
+    problem: ScheduleProblem,
+    chains: list[np.ndarray],
+    groups: tuple[tuple[str, ...], ...] | list[tuple[str, ...]] | None = None,
+) -> list[str]:
     """Groups of stacks the shortest paths cannot treat as one unit (stacks with different storeys), in words."""
     index = {name: i for i, name in enumerate(problem.stack_names)}
     out = []
@@ -280,6 +283,11 @@ def stack_signature(prep: Prepared, s: int) -> bytes | None:
         if int(c) in prep.pinned:
             return None
         ks = prep.cell_cands(int(c))
-        parts += [p.cand_type[ks].tobytes(), p.cand_orient[ks].tobytes(), np.round(prep.weight[ks], 9).tobytes(),
-                  np.float64(p.storey_height_mm[c] if len(p.storey_height_mm) else 0.0).tobytes(), b"|"]
+        parts += [
+            p.cand_type[ks].tobytes(),
+            p.cand_orient[ks].tobytes(),
+            np.round(prep.weight[ks], 9).tobytes(),
+            np.float64(p.storey_height_mm[c] if len(p.storey_height_mm) else 0.0).tobytes(),
+            b"|",
+        ]
     return b"".join(parts)

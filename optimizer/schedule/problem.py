@@ -92,8 +92,14 @@ class Rules:
         Without one every stack (or group of stacks) can be scheduled on its own shortest path, which is then
         the optimum. A cap on grade changes per stack counts too: the shortest paths do not model it.
         """
-        return (self.max_types is not None or self.max_sections is not None or self.price_per_type > 0
-                or self.price_per_section > 0 or self.max_grades is not None or self.max_grade_changes is not None)
+        return (
+            self.max_types is not None
+            or self.max_sections is not None
+            or self.price_per_type > 0
+            or self.price_per_section > 0
+            or self.max_grades is not None
+            or self.max_grade_changes is not None
+        )
 
 
 @dataclass(frozen=True)
@@ -172,7 +178,8 @@ class ScheduleProblem:
     def weight(self) -> np.ndarray:
         """Objective coefficient per candidate."""
         return {Objective.STEEL: self.steel_kg, Objective.COST: self.cost, Objective.CARBON: self.carbon}[
-            Objective(self.objective)]
+            Objective(self.objective)
+        ]
 
 
 @dataclass(frozen=True)

@@ -22,17 +22,10 @@ from typing import Literal
 
 import numpy as np
 
-from optimizer.schedule.backends import (
-    Backend,
-    Outcome,
-    SolverName,
-    solve_highspy,
-    solve_pulp,
-    status_from,
-)
-from optimizer.schedule.builder import Formulation, Reduction
+from optimizer.schedule.backends import Backend, Outcome, SolverName, solve_highspy, solve_pulp, status_from
+from optimizer.schedule.builder import Formulation, Reduction, reduce_problem
 from optimizer.schedule.check import check_schedule
-from optimizer.schedule.compact import expand, formulate, reduce_problem, start_values
+from optimizer.schedule.compact import expand, formulate, start_values
 from optimizer.schedule.heuristic import (
     baseline,
     cellwise_lower_bound,
@@ -77,7 +70,7 @@ class SolveOptions:
             "auto" (paths whenever something couples the stacks and the path formulation is valid, else compact).
         backend: the compact model's back-end: "pulp", "highspy" (HiGHS only) or "auto" (highspy for HiGHS,
             PuLP for CBC).
-        reduce: apply the safe reductions of :func:`optimizer.schedule.compact.reduce_problem`.
+        reduce: apply the safe reductions of :func:`optimizer.schedule.builder.reduce_problem`.
         exact_decomposition: when nothing couples the stacks (no cap or price on types or sections), return
             the per-stack shortest paths, which are then optimal.
         type_pool: "all" (every type: the solver's bound is a bound of the problem), or "paths" (decomposition:
@@ -101,8 +94,14 @@ class SolveOptions:
             raise ValueError("the highspy back-end solves with HiGHS only")
 
 
-def solve(problem: ScheduleProblem, options: SolveOptions = SolveOptions(), *, max_types: int | None = None,
-          warm_start: Schedule | None = None, progress: Callable[[str], None] | None = None) -> Schedule:
+def solve(
+    problem: ScheduleProblem,
+    options: SolveOptions = SolveOptions(),
+    *,
+    max_types: int | None = None,
+    warm_start: Schedule | None = None,
+    progress: Callable[[str], None] | None = None,
+) -> Schedule:
     """Solve the scheduling problem to a proven gap (or the time limit).
 
     Args:
@@ -143,13 +142,26 @@ def _independent_stacks(problem: ScheduleProblem, say: Callable[[str], None], t_
         return None
     fig = figures(problem, sched.cand)
     say(f"stacks are independent: shortest paths give the optimum {fig.objective:.6g}")
-    return Schedule(cand=sched.cand, status=Status.OPTIMAL, objective=fig.objective, bound=fig.objective, gap=0.0,
-                    solver="stack shortest paths (exact: no coupling)", seconds=time.perf_counter() - t_all,
-                    notes=figure_notes(fig))
+    return Schedule(
+        cand=sched.cand,
+        status=Status.OPTIMAL,
+        objective=fig.objective,
+        bound=fig.objective,
+        gap=0.0,
+        solver="stack shortest paths (exact: no coupling)",
+        seconds=time.perf_counter() - t_all,
+        notes=figure_notes(fig),
+    )
 
 
-def _by_paths(problem: ScheduleProblem, options: SolveOptions, max_types: int | None, warm_start: Schedule | None,
-              say: Callable[[str], None], t_all: float) -> Schedule:
+def _by_paths(
+    problem: ScheduleProblem,
+    options: SolveOptions,
+    max_types: int | None,
+    warm_start: Schedule | None,
+    say: Callable[[str], None],
+    t_all: float,
+) -> Schedule:
     """The path formulation, started from the warm start or (under a cap) the greedy schedule."""
     r = problem.rules
     cap_t = max_types if max_types is not None else r.max_types
@@ -160,8 +172,9 @@ def _by_paths(problem: ScheduleProblem, options: SolveOptions, max_types: int | 
         heur = greedy_start(problem, cap_t, options.time_limit_s)
         start = heur.cand if heur is not None else None
     left = max(1.0, options.time_limit_s - (time.perf_counter() - t_all))
-    return solve_paths(problem, replace(options, time_limit_s=left), max_types=max_types, warm_start=start,
-                       progress=say)
+    return solve_paths(
+        problem, replace(options, time_limit_s=left), max_types=max_types, warm_start=start, progress=say
+    )
 
 
 # --------------------------------------------------------------------------------------------
@@ -169,8 +182,15 @@ def _by_paths(problem: ScheduleProblem, options: SolveOptions, max_types: int | 
 # --------------------------------------------------------------------------------------------
 
 
-def _compact(problem: ScheduleProblem, options: SolveOptions, max_types: int | None, warm_start: Schedule | None,
-             say: Callable[[str], None], t_all: float, notes: list[str]) -> Schedule:
+def _compact(
+    problem: ScheduleProblem,
+    options: SolveOptions,
+    max_types: int | None,
+    warm_start: Schedule | None,
+    say: Callable[[str], None],
+    t_all: float,
+    notes: list[str],
+) -> Schedule:
     """The compact model: incumbent, reductions, formulation, solver, result."""
     cap_t = max_types if max_types is not None else problem.rules.max_types
     incumbent = _incumbent(problem, warm_start, cap_t, options.time_limit_s, say, notes)
@@ -180,16 +200,27 @@ def _compact(problem: ScheduleProblem, options: SolveOptions, max_types: int | N
     covered[problem.cand_cell[red.keep]] = True
     if (~covered & (red.mult > 0)).any():
         c = int(np.flatnonzero(~covered & (red.mult > 0))[0])
-        notes.append(f"stack {problem.cell_names[c][0]}: level {problem.cell_names[c][1]} lies on no buildable "
-                     "path (see optimizer.schedule.diagnose)")
-        return Schedule(cand=np.full(problem.n_cells, -1, dtype=int), status=Status.INFEASIBLE,
-                        objective=np.inf, bound=np.inf, gap=np.inf, solver="reductions",
-                        seconds=time.perf_counter() - t_all, notes=tuple(notes))
+        notes.append(
+            f"stack {problem.cell_names[c][0]}: level {problem.cell_names[c][1]} lies on no buildable "
+            "path (see optimizer.schedule.diagnose)"
+        )
+        return Schedule(
+            cand=np.full(problem.n_cells, -1, dtype=int),
+            status=Status.INFEASIBLE,
+            objective=np.inf,
+            bound=np.inf,
+            gap=np.inf,
+            solver="reductions",
+            seconds=time.perf_counter() - t_all,
+            notes=tuple(notes),
+        )
     t0 = time.perf_counter()
     form = formulate(problem, max_types=cap_t, reduction=red)
     start = start_values(problem, form, incumbent) if incumbent is not None else None
-    size = (f"model: {form.n_binaries} binaries, {form.n_cols - form.n_binaries} continuous, "
-            f"{form.n_rows} rows, {form.n_nonzeros} nonzeros; formulated in {time.perf_counter() - t0:.1f} s")
+    size = (
+        f"model: {form.n_binaries} binaries, {form.n_cols - form.n_binaries} continuous, "
+        f"{form.n_rows} rows, {form.n_nonzeros} nonzeros; formulated in {time.perf_counter() - t0:.1f} s"
+    )
     say(size)
     notes.append(size)
     out, label = _run_solver(problem, form, start, options, say, notes)
@@ -203,12 +234,26 @@ def _compact(problem: ScheduleProblem, options: SolveOptions, max_types: int | N
     bound = max(bound, red.lower_bound, cellwise_lower_bound(problem).value)
     gap = max(0.0, (fig.objective - bound) / max(abs(fig.objective), 1e-9)) if np.isfinite(bound) else np.inf
     status = status_from(True, False, gap, options.gap_rel, out.status is Status.TIME_LIMIT)
-    return Schedule(cand=cand, status=status, objective=fig.objective, bound=bound, gap=gap, solver=label,
-                    seconds=time.perf_counter() - t_all, notes=tuple(notes) + figure_notes(fig))
+    return Schedule(
+        cand=cand,
+        status=status,
+        objective=fig.objective,
+        bound=bound,
+        gap=gap,
+        solver=label,
+        seconds=time.perf_counter() - t_all,
+        notes=tuple(notes) + figure_notes(fig),
+    )
 
 
-def _incumbent(problem: ScheduleProblem, warm_start: Schedule | None, cap_t: int | None, time_limit_s: float,
-               say: Callable[[str], None], notes: list[str]) -> np.ndarray | None:
+def _incumbent(
+    problem: ScheduleProblem,
+    warm_start: Schedule | None,
+    cap_t: int | None,
+    time_limit_s: float,
+    say: Callable[[str], None],
+    notes: list[str],
+) -> np.ndarray | None:
     """The warm start if it keeps every rule, else (without one) the greedy schedule; None when there is none."""
     if warm_start is not None:
         incumbent = np.asarray(warm_start.cand)
@@ -238,8 +283,14 @@ def _type_pool(problem: ScheduleProblem, incumbent: np.ndarray | None) -> np.nda
     return pool_mask
 
 
-def _reductions(problem: ScheduleProblem, incumbent: np.ndarray | None, reduce: bool, pool_mask: np.ndarray | None,
-                say: Callable[[str], None], notes: list[str]) -> Reduction:
+def _reductions(
+    problem: ScheduleProblem,
+    incumbent: np.ndarray | None,
+    reduce: bool,
+    pool_mask: np.ndarray | None,
+    say: Callable[[str], None],
+    notes: list[str],
+) -> Reduction:
     """The reductions (safe unless over a type pool), with the per-stack bound of the full problem."""
     t0 = time.perf_counter()
     red = reduce_problem(problem, incumbent, prune_paths=reduce, merge_stacks=reduce, type_pool=pool_mask)
@@ -252,8 +303,14 @@ def _reductions(problem: ScheduleProblem, incumbent: np.ndarray | None, reduce: 
     return red
 
 
-def _run_solver(problem: ScheduleProblem, form: Formulation, start: np.ndarray | None, options: SolveOptions,
-                say: Callable[[str], None], notes: list[str]) -> tuple[Outcome, str]:
+def _run_solver(
+    problem: ScheduleProblem,
+    form: Formulation,
+    start: np.ndarray | None,
+    options: SolveOptions,
+    say: Callable[[str], None],
+    notes: list[str],
+) -> tuple[Outcome, str]:
     """The formulation through the chosen back-end; the outcome and the solver's label."""
     solver = options.solver
     use_highspy = solver == "highs" and options.backend in ("auto", "highspy")
@@ -268,8 +325,16 @@ def _run_solver(problem: ScheduleProblem, form: Formulation, start: np.ndarray |
     return out, f"{'HiGHS' if solver == 'highs' else 'CBC'} via {'highspy' if use_highspy else 'PuLP'}"
 
 
-def _without_solution(problem: ScheduleProblem, out: Outcome, red: Reduction, incumbent: np.ndarray | None,
-                      pool_mask: np.ndarray | None, label: str, notes: list[str], t_all: float) -> Schedule:
+def _without_solution(
+    problem: ScheduleProblem,
+    out: Outcome,
+    red: Reduction,
+    incumbent: np.ndarray | None,
+    pool_mask: np.ndarray | None,
+    label: str,
+    notes: list[str],
+    t_all: float,
+) -> Schedule:
     """The solver kept no schedule: the incumbent (if any) with the best bound, or no schedule."""
     cand = incumbent if incumbent is not None else np.full(problem.n_cells, -1, dtype=int)
     status = out.status
@@ -280,8 +345,16 @@ def _without_solution(problem: ScheduleProblem, out: Outcome, red: Reduction, in
     if status is not Status.INFEASIBLE:
         out.bound = max(out.bound if pool_mask is None else -np.inf, red.lower_bound)
     gap = abs(obj - out.bound) / max(abs(obj), 1e-9) if np.isfinite(obj) and np.isfinite(out.bound) else np.inf
-    return Schedule(cand=np.asarray(cand), status=status, objective=obj, bound=out.bound, gap=gap, solver=label,
-                    seconds=time.perf_counter() - t_all, notes=tuple(notes))
+    return Schedule(
+        cand=np.asarray(cand),
+        status=status,
+        objective=obj,
+        bound=out.bound,
+        gap=gap,
+        solver=label,
+        seconds=time.perf_counter() - t_all,
+        notes=tuple(notes),
+    )
 
 
 def _breaks_rules(problem: ScheduleProblem, cand: np.ndarray) -> bool:
@@ -292,16 +365,18 @@ def _breaks_rules(problem: ScheduleProblem, cand: np.ndarray) -> bool:
     return bool(check_schedule(problem, np.asarray(cand)))
 
 
-def greedy_start(problem: ScheduleProblem, cap_t: int | None, time_limit_s: float,
-                 share: float = 0.25) -> Schedule | None:
+def greedy_start(
+    problem: ScheduleProblem, cap_t: int | None, time_limit_s: float, share: float = 0.25
+) -> Schedule | None:
     """The greedy rationalised schedule (on the lightest candidates when there are many), if it keeps every rule.
 
     It gets ``share`` of the time limit (at least 5 s). The greedy stage does not know every rule (e.g. grade
     caps); a schedule that breaks one is not returned, since as an incumbent it would prune every valid one.
     """
     big = len(problem.cand_cell) > 200 * max(1, problem.n_cells) or len(problem.cand_cell) > 1_000_000
-    heur = rationalise(problem, max_types=cap_t, time_limit_s=max(5.0, share * time_limit_s),
-                       per_cell=40 if big else None)
+    heur = rationalise(
+        problem, max_types=cap_t, time_limit_s=max(5.0, share * time_limit_s), per_cell=40 if big else None
+    )
     return heur if heur is not None and not _breaks_rules(problem, heur.cand) else None
 
 
@@ -310,8 +385,14 @@ def greedy_start(problem: ScheduleProblem, cap_t: int | None, time_limit_s: floa
 # --------------------------------------------------------------------------------------------
 
 
-def solve_paths(problem: ScheduleProblem, options: SolveOptions = SolveOptions(), *, max_types: int | None = None,
-                warm_start: np.ndarray | None = None, progress: Callable[[str], None] | None = None) -> Schedule:
+def solve_paths(
+    problem: ScheduleProblem,
+    options: SolveOptions = SolveOptions(),
+    *,
+    max_types: int | None = None,
+    warm_start: np.ndarray | None = None,
+    progress: Callable[[str], None] | None = None,
+) -> Schedule:
     """Solve by column generation over stack paths; on small problems the compact model closes an open gap.
 
     There is no branching over paths: when the path bound leaves a gap above ``options.gap_rel`` with time
@@ -332,9 +413,16 @@ def solve_paths(problem: ScheduleProblem, options: SolveOptions = SolveOptions()
     Raises:
         ValueError: when the path formulation does not apply to the problem.
     """
-    search = search_paths(problem, solver=options.solver, time_limit_s=options.time_limit_s,
-                          gap_rel=options.gap_rel, max_types=max_types, warm_start=warm_start, progress=progress,
-                          threads=options.threads)
+    search = search_paths(
+        problem,
+        solver=options.solver,
+        time_limit_s=options.time_limit_s,
+        gap_rel=options.gap_rel,
+        max_types=max_types,
+        warm_start=warm_start,
+        progress=progress,
+        threads=options.threads,
+    )
     if search.result is not None:
         return search.result
     remaining = search.deadline - time.perf_counter()
@@ -343,20 +431,39 @@ def solve_paths(problem: ScheduleProblem, options: SolveOptions = SolveOptions()
     return search.schedule()
 
 
-def _finish_compact(problem: ScheduleProblem, search: PathSearch, options: SolveOptions, max_types: int | None,
-                    remaining: float) -> Schedule:
+def _finish_compact(
+    problem: ScheduleProblem, search: PathSearch, options: SolveOptions, max_types: int | None, remaining: float
+) -> Schedule:
     """Close the gap with the compact model (branch and bound), warm-started, keeping the path bound."""
     state = search.state
     warm = None
     if state.columns is not None:
         cand = search.model.assemble(state.columns)
-        warm = Schedule(cand=cand, status=Status.HEURISTIC, objective=state.value, bound=state.bound, gap=state.gap,
-                        solver=search.label, seconds=0.0)
-    compact = SolveOptions(solver=options.solver, time_limit_s=remaining, gap_rel=options.gap_rel,
-                           threads=options.threads, formulation="compact")
+        warm = Schedule(
+            cand=cand,
+            status=Status.HEURISTIC,
+            objective=state.value,
+            bound=state.bound,
+            gap=state.gap,
+            solver=search.label,
+            seconds=0.0,
+        )
+    compact = SolveOptions(
+        solver=options.solver,
+        time_limit_s=remaining,
+        gap_rel=options.gap_rel,
+        threads=options.threads,
+        formulation="compact",
+    )
     out = solve(problem, compact, max_types=max_types, warm_start=warm)
-    notes = search.notes + [f"path bound {state.bound:.6g} left a gap above {options.gap_rel:g}: compact model run "
-                            f"to finish ({out.status})"] + [n for n in out.notes if not n.startswith("steel ")]
+    notes = (
+        search.notes
+        + [
+            f"path bound {state.bound:.6g} left a gap above {options.gap_rel:g}: compact model run "
+            f"to finish ({out.status})"
+        ]
+        + [n for n in out.notes if not n.startswith("steel ")]
+    )
     secs = time.perf_counter() - search.t_all
     if out.status is Status.INFEASIBLE:
         return replace(out, notes=tuple(notes), seconds=secs)
@@ -365,9 +472,16 @@ def _finish_compact(problem: ScheduleProblem, search: PathSearch, options: Solve
     fig = figures(problem, out.cand)
     bound = min(max(out.bound, state.bound), fig.objective)
     gap = max(0.0, (fig.objective - bound) / max(abs(fig.objective), 1e-9))
-    return Schedule(cand=np.asarray(out.cand), status=status_from(True, False, gap, options.gap_rel, stopped=False),
-                    objective=fig.objective, bound=bound, gap=gap, solver=f"{search.label}; finished by {out.solver}",
-                    seconds=secs, notes=tuple(notes) + figure_notes(fig))
+    return Schedule(
+        cand=np.asarray(out.cand),
+        status=status_from(True, False, gap, options.gap_rel, stopped=False),
+        objective=fig.objective,
+        bound=bound,
+        gap=gap,
+        solver=f"{search.label}; finished by {out.solver}",
+        seconds=secs,
+        notes=tuple(notes) + figure_notes(fig),
+    )
 
 
 # --------------------------------------------------------------------------------------------
@@ -375,8 +489,13 @@ def _finish_compact(problem: ScheduleProblem, search: PathSearch, options: Solve
 # --------------------------------------------------------------------------------------------
 
 
-def pareto(problem: ScheduleProblem, options: SolveOptions = SolveOptions(), *, k_max: int | None = None,
-           progress: Callable[[str], None] | None = None) -> list[tuple[int, Schedule]]:
+def pareto(
+    problem: ScheduleProblem,
+    options: SolveOptions = SolveOptions(),
+    *,
+    k_max: int | None = None,
+    progress: Callable[[str], None] | None = None,
+) -> list[tuple[int, Schedule]]:
     """Sweep the cap on distinct types: 1, 2, ... until a larger cap gains nothing.
 
     Each point is warm-started from the previous one (feasible for a larger
@@ -425,6 +544,7 @@ def lower_bound_premium(problem: ScheduleProblem, schedule: Schedule) -> tuple[f
     """
     lb = cellwise_lower_bound(problem).value
     fig = figures(problem, schedule.cand)
-    base = {Objective.STEEL: fig.steel_kg, Objective.COST: fig.cost,
-            Objective.CARBON: fig.carbon}[Objective(problem.objective)]
+    base = {Objective.STEEL: fig.steel_kg, Objective.COST: fig.cost, Objective.CARBON: fig.carbon}[
+        Objective(problem.objective)
+    ]
     return lb, (base - lb) / lb if lb > 0 else np.inf

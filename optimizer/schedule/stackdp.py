@@ -33,7 +33,7 @@ __all__ = ["forward", "backward", "trace"]
 
 
 @njit(cache=True, nogil=True)
-def forward(off, typ, w, st, ok_up, big_up, sec, gid, pen, gpen, m):  # noqa: ANN001, ANN201
+def forward(off, typ, w, st, ok_up, big_up, sec, gid, pen, gpen, m):  # noqa: PLR0912, PLR0915 - compiled kernel: the DP's states written out for numba
     """Cheapest penalised cost of reaching every (row, run state) from the bottom.
 
     Args:
@@ -115,7 +115,7 @@ def forward(off, typ, w, st, ok_up, big_up, sec, gid, pen, gpen, m):  # noqa: AN
 
 
 @njit(cache=True, nogil=True)
-def backward(off, typ, w, st, ok_lo, big_lo, gid, pen, gpen):  # noqa: ANN001, ANN201
+def backward(off, typ, w, st, ok_lo, big_lo, gid, pen, gpen):
     """Cheapest penalised cost from every row to the top of the stack, ignoring the minimum run.
 
     Args:
@@ -163,7 +163,7 @@ def backward(off, typ, w, st, ok_lo, big_lo, gid, pen, gpen):  # noqa: ANN001, A
 
 def trace(off: np.ndarray, f: np.ndarray, back: np.ndarray, back_state: np.ndarray) -> tuple[float, np.ndarray | None]:
     """The cheapest complete path of a forward pass: its cost and its row per storey (None when there is none)."""
-    top = f[off[-2]:off[-1]]
+    top = f[off[-2] : off[-1]]
     if top.size == 0 or not np.isfinite(top).any():
         return np.inf, None
     j, r = np.unravel_index(int(np.argmin(top)), top.shape)

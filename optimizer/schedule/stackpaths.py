@@ -32,8 +32,9 @@ from optimizer.schedule.problem import Objective, ScheduleProblem, StepRule
 __all__ = ["layered_graph", "stack_shortest_path", "levels_dp", "stack_dp", "unit_paths"]
 
 
-def layered_graph(problem: ScheduleProblem, stack: int, orient: int = 0,
-                  allowed_types: np.ndarray | None = None) -> nx.DiGraph:
+def layered_graph(  # noqa: PLR0912 - one branch per continuity rule
+    problem: ScheduleProblem, stack: int, orient: int = 0, allowed_types: np.ndarray | None = None
+) -> nx.DiGraph:
     """The layered graph of one stack in one orientation.
 
     Nodes are ``"source"``, ``"sink"`` and ``(level, cand, run)``: candidate
@@ -55,8 +56,9 @@ def layered_graph(problem: ScheduleProblem, stack: int, orient: int = 0,
     m = run_states(problem)
     w = prep.weight
     t = problem.types
-    starters_count = (StepRule(problem.rules.step_rule) is StepRule.STARTERS
-                      and Objective(problem.objective) is Objective.STEEL)
+    starters_count = (
+        StepRule(problem.rules.step_rule) is StepRule.STARTERS and Objective(problem.objective) is Objective.STEEL
+    )
     g = nx.DiGraph()
     g.add_node("source")
     g.add_node("sink")
@@ -93,8 +95,9 @@ def layered_graph(problem: ScheduleProblem, stack: int, orient: int = 0,
     return g
 
 
-def stack_shortest_path(problem: ScheduleProblem, stack: int,
-                        allowed_types: np.ndarray | None = None) -> tuple[float, np.ndarray | None]:
+def stack_shortest_path(
+    problem: ScheduleProblem, stack: int, allowed_types: np.ndarray | None = None
+) -> tuple[float, np.ndarray | None]:
     """Best schedule of one stack alone (networkx shortest path over both orientations if free).
 
     Group, cap and price rules are ignored; pinned cells are kept.
@@ -114,8 +117,9 @@ def stack_shortest_path(problem: ScheduleProblem, stack: int,
     return best
 
 
-def levels_dp(problem: ScheduleProblem, levels: list[Level], m: int,
-               allowed: np.ndarray | None = None) -> tuple[float, np.ndarray | None]:
+def levels_dp(
+    problem: ScheduleProblem, levels: list[Level], m: int, allowed: np.ndarray | None = None
+) -> tuple[float, np.ndarray | None]:
     """Cheapest path through the levels of one unit in one orientation (the numpy dynamic program).
 
     Args:
@@ -183,8 +187,9 @@ def levels_dp(problem: ScheduleProblem, levels: list[Level], m: int,
     return cost, np.array([rows[i][k] for i, k in enumerate(path)], dtype=int)
 
 
-def stack_dp(problem: ScheduleProblem, stack: int,
-             allowed_types: np.ndarray | None = None) -> tuple[float, np.ndarray | None]:
+def stack_dp(
+    problem: ScheduleProblem, stack: int, allowed_types: np.ndarray | None = None
+) -> tuple[float, np.ndarray | None]:
     """Best schedule of one stack alone by the numpy dynamic program (same answer as :func:`stack_shortest_path`).
 
     Returns:
@@ -214,4 +219,3 @@ def unit_paths(prep: Prepared, unit: Unit, allowed: np.ndarray | None) -> tuple[
         if rows is not None and cost < best[0]:
             best = (cost, np.stack([levels[i].cands[k] for i, k in enumerate(rows)], axis=0))
     return best
-

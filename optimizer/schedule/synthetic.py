@@ -126,17 +126,28 @@ def synthetic_catalogue(spec: SyntheticSpec, rng: np.random.Generator) -> tuple[
     section_of = {k: i for i, k in enumerate(dict.fromkeys(keys))}
     section = np.array([section_of[k] for k in keys], dtype=int)
     marks = tuple(
-        (f"D{int(b[i])}" if circ[i] else f"{int(b[i])}x{int(h[i])}")
-        + f"-{n_bars[i]}H{int(dia[i])}-C{int(fck[i])}"
+        (f"D{int(b[i])}" if circ[i] else f"{int(b[i])}x{int(h[i])}") + f"-{n_bars[i]}H{int(dia[i])}-C{int(fck[i])}"
         for i in range(len(sel))
     )
-    types = TypeTable(mark=marks, circ=circ, b=b, h=h, nb=nb, nh=nh, dia=dia, corner_dia=corner, fck=fck,
-                      section=section, starter_kg_per_m=area_s * STEEL_DENSITY_KG_M3 * 1e-6)
+    types = TypeTable(
+        mark=marks,
+        circ=circ,
+        b=b,
+        h=h,
+        nb=nb,
+        nh=nh,
+        dia=dia,
+        corner_dia=corner,
+        fck=fck,
+        section=section,
+        starter_kg_per_m=area_s * STEEL_DENSITY_KG_M3 * 1e-6,
+    )
     return types, area_s, capacity
 
 
-def synthetic_problem(spec: SyntheticSpec, rules: Rules | None = None,
-                      objective: Objective = Objective.STEEL) -> ScheduleProblem:
+def synthetic_problem(  # noqa: PLR0915 - the generator's options in order
+    spec: SyntheticSpec, rules: Rules | None = None, objective: Objective = Objective.STEEL
+) -> ScheduleProblem:
     """A random but plausible ScheduleProblem.
 
     Demand at a cell is the load of the storeys above it (with a per-stack
@@ -225,10 +236,23 @@ def synthetic_problem(spec: SyntheticSpec, rules: Rules | None = None,
     cap_c = capacity[cand_type]
     util = np.divide(demand_a[cand_cell], cap_c, out=np.zeros_like(cap_c), where=cap_c > 0)
     return ScheduleProblem(
-        cell_names=tuple(cell_names), stack_names=stack_names, stack=np.array(stack_idx, dtype=int),
-        above=np.array(above, dtype=int), stack_free=free, types=types, cand_cell=cand_cell, cand_type=cand_type,
-        cand_orient=cand_orient, steel_kg=steel, cost=cost, carbon=carbon, utilisation=util,
-        rules=rules if rules is not None else Rules(), objective=objective, storey_height_mm=storey_a)
+        cell_names=tuple(cell_names),
+        stack_names=stack_names,
+        stack=np.array(stack_idx, dtype=int),
+        above=np.array(above, dtype=int),
+        stack_free=free,
+        types=types,
+        cand_cell=cand_cell,
+        cand_type=cand_type,
+        cand_orient=cand_orient,
+        steel_kg=steel,
+        cost=cost,
+        carbon=carbon,
+        utilisation=util,
+        rules=rules if rules is not None else Rules(),
+        objective=objective,
+        storey_height_mm=storey_a,
+    )
 
 
 def tower(n_cells: int, n_types: int, seed: int = 1, rules: Rules | None = None) -> ScheduleProblem:
@@ -246,8 +270,18 @@ def tower(n_cells: int, n_types: int, seed: int = 1, rules: Rules | None = None)
     n_levels = 30 if n_cells <= 1500 else 40
     n_stacks = max(1, round(n_cells / n_levels))
     sizes = tuple(float(s) for s in range(250, 1250, 50))
-    spec = SyntheticSpec(n_stacks=n_stacks, n_levels=n_levels, n_types=n_types, seed=seed, rectangles=True,
-                         free_fraction=0.3, symmetry=True, sizes_mm=sizes, counts=(2, 3, 4, 5, 6, 7, 8),
-                         dias=(12.0, 16.0, 20.0, 25.0, 32.0, 40.0), grades=(30.0, 35.0, 40.0, 50.0),
-                         load_kn_per_level=700.0)
+    spec = SyntheticSpec(
+        n_stacks=n_stacks,
+        n_levels=n_levels,
+        n_types=n_types,
+        seed=seed,
+        rectangles=True,
+        free_fraction=0.3,
+        symmetry=True,
+        sizes_mm=sizes,
+        counts=(2, 3, 4, 5, 6, 7, 8),
+        dias=(12.0, 16.0, 20.0, 25.0, 32.0, 40.0),
+        grades=(30.0, 35.0, 40.0, 50.0),
+        load_kn_per_level=700.0,
+    )
     return synthetic_problem(spec, rules=rules)

@@ -55,8 +55,10 @@ def result_row(name: str, r: RunResult) -> dict:
     big = r.catalogue.types[int(r.chosen_type[largest])]
     grades = sorted({r.catalogue.types[int(t)].design.concrete.name for t in r.chosen_type})
     return {
-        "variant": name, "grades_used": " ".join(grades),
-        "steel_t": round(tot["steel_t"], 2), "concrete_m3": round(tot["concrete_m3"], 1),
+        "variant": name,
+        "grades_used": " ".join(grades),
+        "steel_t": round(tot["steel_t"], 2),
+        "concrete_m3": round(tot["concrete_m3"], 1),
         "cost": None if math.isnan(tot["cost"]) else round(tot["cost"], 0),
         "carbon_tCO2e": round(tot["carbon_tCO2e"], 1),
         "types": len(r.types_used),
@@ -64,7 +66,8 @@ def result_row(name: str, r: RunResult) -> dict:
         "largest_ground_column": f"{big.section_key} {big.design.section.bars.notation}",
         "largest_ground_column_m2": round(big.design.section.Ac / 1e6, 3),
         "column_plan_area_m2": round(tot["plan_area_m2"], 1),
-        "premium_percent": round(100 * r.premium, 1), "gap_percent": round(100 * r.schedule.gap, 2),
+        "premium_percent": round(100 * r.premium, 1),
+        "gap_percent": round(100 * r.schedule.gap, 2),
         "solver_status": r.schedule.status,
     }
 
@@ -82,8 +85,13 @@ def compare_sentences(table: pd.DataFrame, reference: str | None = None) -> list
         return []
     ref = table.iloc[0] if reference is None else table[table["variant"] == reference].iloc[0]
     out = []
-    measures = (("steel_t", "steel"), ("concrete_m3", "concrete"), ("column_plan_area_m2", "column plan area"),
-                ("carbon_tCO2e", "embodied carbon"), ("cost", "cost"))
+    measures = (
+        ("steel_t", "steel"),
+        ("concrete_m3", "concrete"),
+        ("column_plan_area_m2", "column plan area"),
+        ("carbon_tCO2e", "embodied carbon"),
+        ("cost", "cost"),
+    )
     for _, row in table.iterrows():
         if row["variant"] == ref["variant"]:
             continue
@@ -105,8 +113,11 @@ def compare_sentences(table: pd.DataFrame, reference: str | None = None) -> list
     return out
 
 
-def run_variants(variants: list[Variant], runner: Callable[[Variant], RunResult] | None = None,
-                 progress: Callable[[str, int, int], None] | None = None) -> tuple[pd.DataFrame, dict]:
+def run_variants(
+    variants: list[Variant],
+    runner: Callable[[Variant], RunResult] | None = None,
+    progress: Callable[[str, int, int], None] | None = None,
+) -> tuple[pd.DataFrame, dict]:
     """Run every variant one after another; returns the table and the results by name."""
     say = progress or (lambda *_: None)
     results = {}
@@ -120,7 +131,7 @@ def run_variants(variants: list[Variant], runner: Callable[[Variant], RunResult]
     return pd.DataFrame(rows), results
 
 
-def plot_comparison(table: pd.DataFrame, path_png, reference: str | None = None) -> None:  # noqa: ANN001
+def plot_comparison(table: pd.DataFrame, path_png, reference: str | None = None) -> None:
     """One chart: each measure of each variant relative to the reference (100 %)."""
     import matplotlib
 
@@ -128,8 +139,12 @@ def plot_comparison(table: pd.DataFrame, path_png, reference: str | None = None)
     import matplotlib.pyplot as plt
 
     ref = table.iloc[0] if reference is None else table[table["variant"] == reference].iloc[0]
-    measures = [("steel_t", "steel"), ("concrete_m3", "concrete"), ("column_plan_area_m2", "plan area"),
-                ("carbon_tCO2e", "carbon")]
+    measures = [
+        ("steel_t", "steel"),
+        ("concrete_m3", "concrete"),
+        ("column_plan_area_m2", "plan area"),
+        ("carbon_tCO2e", "carbon"),
+    ]
     if table["cost"].notna().all():
         measures.append(("cost", "cost"))
     fig, ax = plt.subplots(figsize=(1.8 + 1.6 * len(measures), 4.2))
@@ -144,8 +159,14 @@ def plot_comparison(table: pd.DataFrame, path_png, reference: str | None = None)
     ax.set_title("Concrete grades compared on the whole building")
     ax.legend(fontsize=8, ncols=2)
     ax.grid(axis="y", lw=0.3)
-    fig.text(0.5, 0.005, "Concept design only: verify under the local code and national annex.", ha="center",
-             fontsize=7, color="0.4")
+    fig.text(
+        0.5,
+        0.005,
+        "Concept design only: verify under the local code and national annex.",
+        ha="center",
+        fontsize=7,
+        color="0.4",
+    )
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     fig.savefig(path_png, dpi=120)
     plt.close(fig)

@@ -1,12 +1,9 @@
 """Parametric studies: the whole optimisation of one building over a grid of choices.
 
-A study file (TOML) names a base scenario and, under ``[vary]``, a list of
-values for each of a small fixed set of study variables (concrete grade,
-size step, bar diameters, caps on types and sections, minimum run, steel
-carbon factor, objective). Every combination is a variant: the base scenario
-with those choices, rebuilt from plain data (the scenario text and a dict of
-variables) wherever it runs, so a variant can be sent to a local worker
-process or to a Dask distributed cluster.
+The study file and its variants are read by ``optimizer.studies.study_spec``
+(:func:`~optimizer.studies.study_spec.load_study`). Each variant is rebuilt
+from plain data (the scenario text and a dict of variables) wherever it runs,
+so it can be sent to a local worker process or to a Dask distributed cluster.
 
 Results are kept as they arrive: one JSON file per variant under
 ``OUT/runs/``, written atomically (temporary file, then ``os.replace``), so an
@@ -19,290 +16,32 @@ trade-off charts (PNG). See docs/studies.md.
 from __future__ import annotations
 
 import asyncio
-import hashlib
-import itertools
+import concurrent.futures
 import json
-import math
+import multiprocessing
 import os
 import socket
 import time
-import tomllib
 from collections.abc import Callable
-from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
 import pandas as pd
 
 from optimizer import CAUTION, __version__
-from optimizer.building import Scenario, load_scenario_text
-from optimizer.errors import InputError, did_you_mean
+from optimizer.building import load_scenario_text
+from optimizer.errors import InputError
+from optimizer.pipeline.run import run_scenario
+from optimizer.studies.compare import compare_sentences, result_row
+from optimizer.studies.study_spec import STUDY_VARIABLES, Study, StudyOutcome, StudyVariant, bars_text, variant_scenario
 
-__all__ = ["STUDY_VARIABLES", "MAX_VARIANTS", "Study", "StudyVariant", "StudyOutcome", "load_study",
-           "variant_scenario", "run_variant", "run_study", "results_table", "plot_tradeoffs"]
-
-MAX_VARIANTS = 2000
-"""Largest number of combinations a study may have."""
+__all__ = ["run_variant", "run_study", "results_table", "plot_tradeoffs"]
 
 Progress = Callable[[str, int, int], None]
 
 
-@dataclass(frozen=True)
-class _Var:
-    """One study variable: its key in ``[vary]``, its column in the results and how to read a value."""
-
-    key: str
-    column: str
-    expected: str
-    label: Callable[[Any], str]
-
-
-def _bars_text(v: list[int | float]) -> str:
-    return "/".join(f"{d:g}" for d in v)
-
-
-STUDY_VARIABLES: dict[str, _Var] = {v.key: v for v in (
-    _Var("grades", "grade", 'a list of concrete classes, e.g. ["C40/50", "C50/60"]', lambda v: v),
-    _Var("size_step_mm", "size_step_mm", "a list of section size steps in mm, e.g. [50, 100]",
-         lambda v: f"step {v:g} mm"),
-    _Var("bar_dias", "bar_dias", "a list of lists of bar diameters in mm, e.g. [[16, 20, 25, 32], [20, 25, 32, 40]]",
-         lambda v: f"bars {_bars_text(v)}"),
-    _Var("max_types", "max_types", "a list of whole numbers of types, at least 1, e.g. [6, 10]",
-         lambda v: f"max {v} types"),
-    _Var("max_sections", "max_sections", "a list of whole numbers of sections, at least 1, e.g. [3, 5]",
-         lambda v: f"max {v} sections"),
-    _Var("min_run", "min_run", "a list of whole numbers of storeys, at least 1, e.g. [1, 3]",
-         lambda v: f"min run {v}"),
-    _Var("steel_carbon_per_kg", "steel_carbon_per_kg", "a list of kgCO2e per kg of steel, e.g. [1.2, 1.99]",
-         lambda v: f"steel {v:g} kgCO2e/kg"),
-    _Var("objective", "objective", 'a list of objectives among "steel", "cost", "carbon"',
-         lambda v: f"objective {v}"),
-)}
-"""The study variables (keys of ``[vary]``), in the order they appear in names and tables."""
-
-_STUDY_KEYS = ("name", "scenario", "time_limit_s", "description")
-_TOP_KEYS = ("study", "vary")
-
-
-@dataclass(frozen=True)
-class StudyVariant:
-    """One combination of the study variables.
-
-    Attributes:
-        id: short stable hash of the variables (names the result file).
-        name: readable name built from the variables that take more than one value.
-        variables: study variable key -> value (plain data: str, int, float, list).
-    """
-
-    id: str
-    name: str
-    variables: dict[str, Any]
-
-
-@dataclass(frozen=True)
-class Study:
-    """A study read from its file."""
-
-    path: str
-    name: str
-    scenario_path: str
-    scenario_text: str
-    inputs_hash: str  # base scenario text (and its actions file), colstack version, time limit
-    variables: dict[str, list[Any]]
-    variants: tuple[StudyVariant, ...]
-    time_limit_s: float | None = None
-
-
-@dataclass
-class StudyOutcome:
-    """What :func:`run_study` did."""
-
-    table: pd.DataFrame
-    computed: int
-    skipped: int
-    failed: int
-    files: list[Path] = field(default_factory=list)
-
-    @property
-    def ok(self) -> int:
-        """Number of variants with results."""
-        return int((self.table["status"] == "ok").sum()) if len(self.table) else 0
-
-
-# ---------------------------------------------------------------------------------------------------------------
-# Reading the study file
-
-
-def _is_number(x: object) -> bool:
-    return isinstance(x, (int, float)) and not isinstance(x, bool) and math.isfinite(x)
-
-
-def _normalise(file: str, key: str, value: object) -> Any:
-    """One value of a study variable, checked and in canonical form (raises InputError)."""
-    var = STUDY_VARIABLES[key]
-    where = f"vary.{key}"
-    if key == "grades":
-        from design.materials import Concrete, parse_concrete_class
-
-        try:
-            return Concrete(parse_concrete_class(value)).name
-        except (ValueError, TypeError) as exc:
-            raise InputError(file, where, value, f"a concrete class such as C40/50 ({exc})") from None
-    if key == "bar_dias":
-        if not isinstance(value, list) or not value or not all(_is_number(d) and d > 0 for d in value):
-            raise InputError(file, where, value, var.expected)
-        return sorted({int(d) if float(d).is_integer() else float(d) for d in value})
-    if key == "objective":
-        if value not in ("steel", "cost", "carbon"):
-            raise InputError(file, where, value, var.expected)
-        return value
-    if not _is_number(value):
-        raise InputError(file, where, value, var.expected)
-    if key in ("max_types", "max_sections", "min_run"):
-        if value < 1 or float(value) != int(value):
-            raise InputError(file, where, value, var.expected)
-        return int(value)
-    if key == "size_step_mm":
-        if value <= 0:
-            raise InputError(file, where, value, var.expected)
-    elif value < 0:  # steel_carbon_per_kg
-        raise InputError(file, where, value, var.expected)
-    return int(value) if float(value).is_integer() else float(value)
-
-
-def _hash(*parts: str | bytes) -> str:
-    h = hashlib.sha256()
-    for p in parts:
-        h.update(p.encode("utf-8") if isinstance(p, str) else p)
-        h.update(b"\0")
-    return h.hexdigest()
-
-
-def variant_id(variables: dict[str, Any]) -> str:
-    """Stable short id of a combination of study variables."""
-    return _hash(json.dumps(variables, sort_keys=True, separators=(",", ":")))[:10]
-
-
-def _variant_name(variables: dict[str, Any], varied: list[str]) -> str:
-    keys = varied or list(variables)
-    if not keys:
-        return "base scenario"
-    return ", ".join(STUDY_VARIABLES[k].label(variables[k]) for k in keys)
-
-
-def load_study(path: str | Path) -> Study:
-    """Read and check a study file; every problem raises one :class:`InputError`."""
-    p = Path(path)
-    file = str(p)
-    try:
-        text = p.read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise InputError(file, "(file)", file, "an existing study file") from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(file, "(file)", file, f"a readable UTF-8 text file ({exc})") from None
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(file, "(syntax)", str(exc), "valid TOML") from None
-    for key in data:
-        if key not in _TOP_KEYS:
-            if key in STUDY_VARIABLES:
-                raise InputError(file, key, data[key], "a study variable: put it under [vary]")
-            raise InputError(file, key, data[key], f"[study] or [vary]{did_you_mean(key, _TOP_KEYS)}")
-    head = data.get("study")
-    if not isinstance(head, dict):
-        raise InputError(file, "study", head, 'a [study] table with scenario = "BUILDING.toml"')
-    for key in head:
-        if key not in _STUDY_KEYS:
-            if key in STUDY_VARIABLES:
-                raise InputError(file, f"study.{key}", head[key], "a study variable: put it under [vary]")
-            raise InputError(file, f"study.{key}", head[key],
-                             f"one of {', '.join(_STUDY_KEYS)}{did_you_mean(key, _STUDY_KEYS)}")
-    scen = head.get("scenario")
-    if not isinstance(scen, str) or not scen.strip():
-        raise InputError(file, "study.scenario", scen, "the base scenario file, relative to the study file")
-    sp = Path(scen)
-    if not sp.is_absolute():
-        sp = Path(os.path.normpath(p.parent / sp))
-    try:
-        scen_text = sp.read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError):
-        raise InputError(file, "study.scenario", scen,
-                         "an existing scenario file (relative to the study file)") from None
-    scenario = load_scenario_text(scen_text, source=str(sp), base_dir=sp.parent)  # bad scenario: its own error
-    name = head.get("name", p.stem)
-    if not isinstance(name, str):
-        raise InputError(file, "study.name", name, "a text")
-    tl = head.get("time_limit_s")
-    if tl is not None and (not _is_number(tl) or tl <= 0):
-        raise InputError(file, "study.time_limit_s", tl, "a solver time limit per variant in seconds, above 0")
-
-    vary = data.get("vary", {})
-    if not isinstance(vary, dict):
-        raise InputError(file, "vary", vary, "a [vary] table of study variables")
-    for key in vary:
-        if key not in STUDY_VARIABLES:
-            raise InputError(file, f"vary.{key}", vary[key],
-                             f"a study variable{did_you_mean(key, STUDY_VARIABLES)} "
-                             f"(known: {', '.join(STUDY_VARIABLES)})")
-    variables: dict[str, list[Any]] = {}
-    for key in STUDY_VARIABLES:  # fixed order
-        if key not in vary:
-            continue
-        values = vary[key]
-        if not isinstance(values, list) or not values:
-            raise InputError(file, f"vary.{key}", values, STUDY_VARIABLES[key].expected)
-        if key == "bar_dias" and not all(isinstance(v, list) for v in values):
-            raise InputError(file, f"vary.{key}", values, STUDY_VARIABLES[key].expected)
-        norm = [_normalise(file, key, v) for v in values]
-        seen = []
-        for raw, v in zip(values, norm, strict=True):
-            if v in seen:
-                raise InputError(file, f"vary.{key}", raw, "values that differ from one another (a repeat)")
-            seen.append(v)
-        variables[key] = norm
-    count = math.prod(len(v) for v in variables.values())
-    if count > MAX_VARIANTS:
-        raise InputError(file, "vary", f"{count} combinations", f"at most {MAX_VARIANTS} combinations")
-    varied = [k for k, v in variables.items() if len(v) > 1]
-    variants = []
-    for combo in itertools.product(*variables.values()):
-        vs = dict(zip(variables, combo, strict=True))
-        variants.append(StudyVariant(variant_id(vs), _variant_name(vs, varied), vs))
-    extra = b""
-    if scenario.actions_file is not None:
-        extra = Path(scenario.actions_file).read_bytes()
-    inputs = _hash(scen_text, extra, __version__, repr(tl))
-    return Study(path=file, name=name, scenario_path=str(sp), scenario_text=scen_text, inputs_hash=inputs[:16],
-                 variables=variables, variants=tuple(variants), time_limit_s=None if tl is None else float(tl))
-
-
 # ---------------------------------------------------------------------------------------------------------------
 # One variant (runs in a worker)
-
-
-def variant_scenario(scenario: Scenario, variables: dict[str, Any]) -> Scenario:
-    """The base scenario with the study variables applied (a new Scenario; the base is unchanged)."""
-    from optimizer.candidates.catalogue import CatalogueSpec
-    from optimizer.studies.variants import with_grade, with_reserved
-
-    sc = scenario
-    if "grades" in variables:
-        sc = with_grade(sc, variables["grades"])
-    catalogue: dict[str, Any] = {}
-    if "size_step_mm" in variables:
-        sizes = dict(sc.reserved.get("catalogue", {}).get("sizes_mm", {}))
-        catalogue["sizes_mm"] = {"min": sizes.get("min", CatalogueSpec.size_min),
-                                 "max": sizes.get("max", CatalogueSpec.size_max), "step": variables["size_step_mm"]}
-    if "bar_dias" in variables:
-        catalogue["bar_dias"] = list(variables["bar_dias"])
-    rules = {k: variables[k] for k in ("max_types", "max_sections", "min_run") if k in variables}
-    costs = {k: variables[k] for k in ("steel_carbon_per_kg",) if k in variables}
-    opt = {k: variables[k] for k in ("objective",) if k in variables}
-    for table, updates in (("catalogue", catalogue), ("rules", rules), ("costs", costs), ("optimizer", opt)):
-        if updates:
-            sc = with_reserved(sc, table, updates)
-    return sc
 
 
 def _one_line(exc: BaseException) -> str:
@@ -310,8 +49,9 @@ def _one_line(exc: BaseException) -> str:
     return f"{type(exc).__name__}: {text}" if text else type(exc).__name__
 
 
-def run_variant(scenario_path: str, scenario_text: str, variables: dict[str, Any],
-                time_limit_s: float | None = None) -> dict:
+def run_variant(
+    scenario_path: str, scenario_text: str, variables: dict[str, Any], time_limit_s: float | None = None
+) -> dict:
     """Run one variant from plain data and return its record (never raises for a failing run).
 
     Picklable in and out, so it can run in a local worker process or on a Dask worker. The record holds
@@ -319,19 +59,22 @@ def run_variant(scenario_path: str, scenario_text: str, variables: dict[str, Any
     without the name), the run's ``warnings``, ``elapsed_s`` and where it ran.
     """
     t0 = time.perf_counter()
-    rec: dict[str, Any] = {"status": "failed", "error": "", "figures": {}, "warnings": [],
-                           "host": socket.gethostname(), "pid": os.getpid()}
+    rec: dict[str, Any] = {
+        "status": "failed",
+        "error": "",
+        "figures": {},
+        "warnings": [],
+        "host": socket.gethostname(),
+        "pid": os.getpid(),
+    }
     try:
-        from optimizer.pipeline.run import run_scenario
-        from optimizer.studies.compare import result_row
-
         p = Path(scenario_path)
         base = load_scenario_text(scenario_text, source=str(p), base_dir=p.parent)
         r = run_scenario(variant_scenario(base, variables), time_limit_s=time_limit_s)
         figures = result_row("", r)
         figures.pop("variant", None)
         rec.update(status="ok", figures=figures, warnings=list(r.warnings))
-    except Exception as exc:  # noqa: BLE001 - a failing variant is a result, not a crash of the study
+    except Exception as exc:  # a failing variant is a result, not a crash of the study
         rec["error"] = _one_line(exc)
     rec["elapsed_s"] = round(time.perf_counter() - t0, 2)
     return rec
@@ -369,12 +112,20 @@ def _prepare_out(study: Study, out: Path) -> Path:
     if out.is_dir() and any(out.iterdir()) and not (out / "study.json").is_file():
         raise InputError("--out", "--out", str(out), "a new or empty folder, or the folder of an earlier study")
     (out / "runs").mkdir(parents=True, exist_ok=True)
-    _write_json(out / "study.json", {
-        "caution": CAUTION, "colstack": __version__, "study": study.path, "name": study.name,
-        "scenario": study.scenario_path, "inputs": study.inputs_hash, "time_limit_s": study.time_limit_s,
-        "variables": study.variables,
-        "variants": [{"id": v.id, "name": v.name, "variables": v.variables} for v in study.variants],
-    })
+    _write_json(
+        out / "study.json",
+        {
+            "caution": CAUTION,
+            "colstack": __version__,
+            "study": study.path,
+            "name": study.name,
+            "scenario": study.scenario_path,
+            "inputs": study.inputs_hash,
+            "time_limit_s": study.time_limit_s,
+            "variables": study.variables,
+            "variants": [{"id": v.id, "name": v.name, "variables": v.variables} for v in study.variants],
+        },
+    )
     return out
 
 
@@ -396,20 +147,22 @@ def _cores() -> int:
         return os.cpu_count() or 1
 
 
-def _submit_local(study: Study, todo: list[StudyVariant], workers: int,
-                  done: Callable[[StudyVariant, dict | None, str], None]) -> None:
-    import multiprocessing
-    from concurrent.futures import ProcessPoolExecutor, as_completed
-
+def _submit_local(
+    study: Study, todo: list[StudyVariant], workers: int, done: Callable[[StudyVariant, dict | None, str], None]
+) -> None:
     # spawn: a fresh interpreter per worker (forking a process that already runs solver threads is unsafe).
-    pool = ProcessPoolExecutor(max_workers=min(workers, len(todo)), mp_context=multiprocessing.get_context("spawn"))
+    pool = concurrent.futures.ProcessPoolExecutor(
+        max_workers=min(workers, len(todo)), mp_context=multiprocessing.get_context("spawn")
+    )
     try:
-        futures = {pool.submit(run_variant, study.scenario_path, study.scenario_text, v.variables,
-                               study.time_limit_s): v for v in todo}
-        for fut in as_completed(futures):
+        futures = {
+            pool.submit(run_variant, study.scenario_path, study.scenario_text, v.variables, study.time_limit_s): v
+            for v in todo
+        }
+        for fut in concurrent.futures.as_completed(futures):
             try:
                 rec = fut.result()
-            except Exception as exc:  # noqa: BLE001 - a lost worker: reported, not kept (a rerun retries it)
+            except Exception as exc:  # a lost worker: reported, not kept (a rerun retries it)
                 done(futures[fut], None, f"worker failed: {_one_line(exc)}")
             else:
                 done(futures[fut], rec, "")
@@ -424,37 +177,54 @@ def _check_address(address: str) -> None:
     try:
         from distributed.comm.addressing import parse_address, parse_host_port
     except ImportError:
-        raise InputError("--scheduler", "--scheduler", address,
-                         "the 'distributed' package installed (pip install 'colstack[dask]')") from None
+        raise InputError(
+            "--scheduler", "--scheduler", address, "the 'distributed' package installed (pip install 'colstack[dask]')"
+        ) from None
     try:
         scheme, loc = parse_address(address)
         if scheme in ("tcp", "tls", "ws", "wss"):
             parse_host_port(loc)
     except (ValueError, TypeError) as exc:
-        raise InputError("--scheduler", "--scheduler", address,
-                         f"a Dask scheduler address such as tcp://HOST:8786 ({_one_line(exc)})") from None
+        raise InputError(
+            "--scheduler",
+            "--scheduler",
+            address,
+            f"a Dask scheduler address such as tcp://HOST:8786 ({_one_line(exc)})",
+        ) from None
 
 
-def _submit_dask(study: Study, todo: list[StudyVariant], scheduler: str,
-                 done: Callable[[StudyVariant, dict | None, str], None]) -> None:
+def _submit_dask(
+    study: Study, todo: list[StudyVariant], scheduler: str, done: Callable[[StudyVariant, dict | None, str], None]
+) -> None:
     from distributed import Client, as_completed
 
     try:
         client = Client(scheduler, timeout="15s", set_as_default=False)
     except (OSError, TimeoutError, ValueError) as exc:
-        raise InputError("--scheduler", "--scheduler", scheduler,
-                         f"the address of a running Dask scheduler, e.g. tcp://HOST:8786 ({_one_line(exc)})") from None
+        raise InputError(
+            "--scheduler",
+            "--scheduler",
+            scheduler,
+            f"the address of a running Dask scheduler, e.g. tcp://HOST:8786 ({_one_line(exc)})",
+        ) from None
     futures = {}
     try:
         for v in todo:
-            fut = client.submit(run_variant, study.scenario_path, study.scenario_text, v.variables,
-                                study.time_limit_s, key=f"colstack-study-{v.id}-{os.urandom(4).hex()}", pure=False)
+            fut = client.submit(
+                run_variant,
+                study.scenario_path,
+                study.scenario_text,
+                v.variables,
+                study.time_limit_s,
+                key=f"colstack-study-{v.id}-{os.urandom(4).hex()}",
+                pure=False,
+            )
             futures[fut.key] = (fut, v)
         for fut in as_completed([f for f, _ in futures.values()], loop=client.loop):
             v = futures[fut.key][1]
             try:
                 rec = fut.result()
-            except (Exception, asyncio.CancelledError) as exc:  # noqa: BLE001 - lost worker: reported, not kept
+            except (Exception, asyncio.CancelledError) as exc:  # lost worker: reported, not kept
                 done(v, None, f"worker failed: {_one_line(exc)}")
             else:
                 done(v, rec, "")
@@ -465,8 +235,14 @@ def _submit_dask(study: Study, todo: list[StudyVariant], scheduler: str,
         client.close()
 
 
-def run_study(study: Study, out: str | Path, workers: int | None = None, scheduler: str | None = None,
-              progress: Progress | None = None, retry_failed: bool = False) -> StudyOutcome:
+def run_study(
+    study: Study,
+    out: str | Path,
+    workers: int | None = None,
+    scheduler: str | None = None,
+    progress: Progress | None = None,
+    retry_failed: bool = False,
+) -> StudyOutcome:
     """Run every variant of ``study`` not yet done, keep each result as it arrives, then write the summary files.
 
     Args:
@@ -492,8 +268,12 @@ def run_study(study: Study, out: str | Path, workers: int | None = None, schedul
     todo: list[StudyVariant] = []
     for v in study.variants:
         rec = _read_record(runs / f"{v.id}.json")
-        if (rec is not None and rec.get("inputs") == study.inputs_hash and rec.get("variables") == v.variables
-                and not (retry_failed and rec.get("status") != "ok")):
+        if (
+            rec is not None
+            and rec.get("inputs") == study.inputs_hash
+            and rec.get("variables") == v.variables
+            and not (retry_failed and rec.get("status") != "ok")
+        ):
             records[v.id] = rec
         else:
             todo.append(v)
@@ -505,8 +285,15 @@ def run_study(study: Study, out: str | Path, workers: int | None = None, schedul
     def done(v: StudyVariant, rec: dict | None, infra_error: str) -> None:
         if rec is None:
             rec = {"status": "failed", "error": infra_error, "figures": {}, "warnings": []}
-        rec = {"caution": CAUTION, "id": v.id, "name": v.name, "variables": v.variables, "inputs": study.inputs_hash,
-               "scenario": study.scenario_path, **rec}
+        rec = {
+            "caution": CAUTION,
+            "id": v.id,
+            "name": v.name,
+            "variables": v.variables,
+            "inputs": study.inputs_hash,
+            "scenario": study.scenario_path,
+            **rec,
+        }
         if not infra_error:  # a lost worker is not a result of the variant: a rerun tries again
             _write_json(runs / f"{v.id}.json", rec)
         records[v.id] = rec
@@ -533,13 +320,25 @@ def run_study(study: Study, out: str | Path, workers: int | None = None, schedul
 # Results
 
 
-_FIGURES = ("grades_used", "steel_t", "concrete_m3", "cost", "carbon_tCO2e", "types", "sections",
-            "largest_ground_column", "largest_ground_column_m2", "column_plan_area_m2", "premium_percent",
-            "gap_percent", "solver_status")
+_FIGURES = (
+    "grades_used",
+    "steel_t",
+    "concrete_m3",
+    "cost",
+    "carbon_tCO2e",
+    "types",
+    "sections",
+    "largest_ground_column",
+    "largest_ground_column_m2",
+    "column_plan_area_m2",
+    "premium_percent",
+    "gap_percent",
+    "solver_status",
+)
 
 
 def _cell(key: str, value: Any) -> Any:
-    return _bars_text(value) if key == "bar_dias" else value
+    return bars_text(value) if key == "bar_dias" else value
 
 
 def results_table(study: Study, records: dict[str, dict]) -> pd.DataFrame:
@@ -574,8 +373,13 @@ def _pareto(points: list[tuple[float, float]]) -> list[tuple[float, float]]:
 TRADEOFFS = (
     ("types", "steel_t", "distinct column types", "steel (t)", "tradeoff_steel_types.png"),
     ("steel_t", "carbon_tCO2e", "steel (t)", "embodied carbon A1-A3 (tCO2e)", "tradeoff_carbon_steel.png"),
-    ("column_plan_area_m2", "steel_t", "column plan area, all floors (m2)", "steel (t)",
-     "tradeoff_steel_plan_area.png"),
+    (
+        "column_plan_area_m2",
+        "steel_t",
+        "column plan area, all floors (m2)",
+        "steel (t)",
+        "tradeoff_steel_plan_area.png",
+    ),
 )
 """The trade-off charts: (x column, y column, x label, y label, file name)."""
 
@@ -606,18 +410,35 @@ def plot_tradeoffs(table: pd.DataFrame, folder: str | Path, title: str = "") -> 
             colour = colours(j / max(len(grades) - 1, 1) * 0.85)
             ax.scatter(sub[xcol].astype(float), sub[ycol].astype(float), s=36, color=colour, label=g, zorder=3)
         for _, row in ok.iterrows():
-            ax.annotate(str(row["no"]), (float(row[xcol]), float(row[ycol])), textcoords="offset points",
-                        xytext=(4, 4), fontsize=7, color="0.25")
+            ax.annotate(
+                str(row["no"]),
+                (float(row[xcol]), float(row[ycol])),
+                textcoords="offset points",
+                xytext=(4, 4),
+                fontsize=7,
+                color="0.25",
+            )
         front = _pareto(list(zip(ok[xcol].astype(float), ok[ycol].astype(float), strict=True)))
         if len(front) > 1:
-            ax.plot(*zip(*front, strict=True), ls="--", lw=0.9, color="0.4", drawstyle="steps-post",
-                    label="best trade-off", zorder=2)
+            ax.plot(
+                *zip(*front, strict=True),
+                ls="--",
+                lw=0.9,
+                color="0.4",
+                drawstyle="steps-post",
+                label="best trade-off",
+                zorder=2,
+            )
         if xcol == "types":
             ax.xaxis.set_major_locator(MaxNLocator(integer=True))
         ax.set_xlabel(xlabel)
         ax.set_ylabel(ylabel)
-        ax.set_title(f"{title}: {ylabel.split(' (')[0]} against {xlabel.split(' (')[0]}" if title
-                     else f"{ylabel.split(' (')[0]} against {xlabel.split(' (')[0]}", fontsize=10)
+        ax.set_title(
+            f"{title}: {ylabel.split(' (')[0]} against {xlabel.split(' (')[0]}"
+            if title
+            else f"{ylabel.split(' (')[0]} against {xlabel.split(' (')[0]}",
+            fontsize=10,
+        )
         ax.grid(lw=0.3)
         ax.legend(fontsize=8, title="grades used", title_fontsize=8)
         fig.text(0.5, 0.005, CAUTION, ha="center", fontsize=6, color="0.4", wrap=True)
@@ -630,11 +451,15 @@ def plot_tradeoffs(table: pd.DataFrame, folder: str | Path, title: str = "") -> 
 
 
 def _summary_lines(study: Study, table: pd.DataFrame) -> list[str]:
-    from optimizer.studies.compare import compare_sentences
-
     ok = table[table["status"] == "ok"]
-    lines = [CAUTION, "", f"Study: {study.name}", f"Base scenario: {study.scenario_path}",
-             f"Variants: {len(table)}, with results: {len(ok)}, failed: {len(table) - len(ok)}", ""]
+    lines = [
+        CAUTION,
+        "",
+        f"Study: {study.name}",
+        f"Base scenario: {study.scenario_path}",
+        f"Variants: {len(table)}, with results: {len(ok)}, failed: {len(table) - len(ok)}",
+        "",
+    ]
     for _, row in table[table["status"] != "ok"].iterrows():
         lines.append(f"  failed  {row['no']}  {row['name']}: {row['error']}")
     if len(ok) > 1:
@@ -643,8 +468,11 @@ def _summary_lines(study: Study, table: pd.DataFrame) -> list[str]:
         lines += [f"  {s}" for s in compare_sentences(cmp)]
         lines.append("")
     if len(ok):
-        for col, what in (("steel_t", "least steel"), ("carbon_tCO2e", "least embodied carbon"),
-                          ("types", "fewest types")):
+        for col, what in (
+            ("steel_t", "least steel"),
+            ("carbon_tCO2e", "least embodied carbon"),
+            ("types", "fewest types"),
+        ):
             best = ok.loc[ok[col].astype(float).idxmin()]
             lines.append(f"{what}: variant {best['no']} ({best['name']}), {best[col]}")
     return [*lines, ""]
@@ -655,8 +483,12 @@ def _write_summary(study: Study, table: pd.DataFrame, out: Path) -> list[Path]:
     _write_atomic(files[0], lambda t: table.to_csv(t, index=False))
 
     def excel(t: Path) -> None:
-        about = pd.DataFrame({"item": ["caution", "study", "base scenario", "colstack"],
-                              "value": [CAUTION, study.name, study.scenario_path, __version__]})
+        about = pd.DataFrame(
+            {
+                "item": ["caution", "study", "base scenario", "colstack"],
+                "value": [CAUTION, study.name, study.scenario_path, __version__],
+            }
+        )
         with pd.ExcelWriter(t, engine="openpyxl") as xl:
             table.drop(columns=["caution"]).to_excel(xl, sheet_name="Results", index=False)
             about.to_excel(xl, sheet_name="About", index=False)

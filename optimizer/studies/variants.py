@@ -29,8 +29,10 @@ def with_grade(scenario: Scenario, grade: str) -> Scenario:
     except ValueError as exc:
         raise InputError(scenario.source, "--grades", grade, str(exc)) from None
     name = grade_name(fck)
-    cells = tuple(dataclasses.replace(c, settings=dataclasses.replace(c.settings, concrete=name, fck_MPa=fck))
-                  for c in scenario.cells)
+    cells = tuple(
+        dataclasses.replace(c, settings=dataclasses.replace(c.settings, concrete=name, fck_MPa=fck))
+        for c in scenario.cells
+    )
     materials = dataclasses.replace(scenario.materials, concrete=name, fck_MPa=fck, zones=())
     return dataclasses.replace(scenario, cells=cells, materials=materials)
 
@@ -41,5 +43,6 @@ def with_reserved(scenario: Scenario, table: str, updates: dict[str, Any]) -> Sc
     merged = dict(reserved.get(table, {}))
     merged.update(updates)
     reserved[table] = merged
-    return dataclasses.replace(scenario, reserved=MappingProxyType({k: MappingProxyType(v)
-                                                                    for k, v in reserved.items()}))
+    return dataclasses.replace(
+        scenario, reserved=MappingProxyType({k: MappingProxyType(v) for k, v in reserved.items()})
+    )

@@ -1,0 +1,1 @@
+"""Shared pieces of the test suite: paths of the bundled files, test oracles, a TOML writer."""
