@@ -78,6 +78,22 @@ class LowerBound:
     cand: np.ndarray
 
 
+def _heuristic_schedule(
+    problem: ScheduleProblem, prep: Prepared, paths: dict[int, np.ndarray], solver: str, t0: float
+) -> Schedule:
+    """The schedule of the chosen unit paths, labelled as a heuristic one (no bound, no gap)."""
+    cand = _assemble(problem, prep, paths)
+    return Schedule(
+        cand=cand,
+        status=Status.HEURISTIC,
+        objective=figures(problem, cand).objective,
+        bound=-np.inf,
+        gap=np.inf,
+        solver=solver,
+        seconds=time.perf_counter() - t0,
+    )
+
+
 def _assemble(problem: ScheduleProblem, prep: Prepared, paths: dict[int, np.ndarray]) -> np.ndarray:
     cand = np.full(problem.n_cells, -1, dtype=int)
     for ui, mat in paths.items():
@@ -102,17 +118,7 @@ def stack_optimum(problem: ScheduleProblem, allowed_types: np.ndarray | None = N
         if mat is None:
             return None
         paths[ui] = mat
-    cand = _assemble(problem, prep, paths)
-    fig = figures(problem, cand)
-    return Schedule(
-        cand=cand,
-        status=Status.HEURISTIC,
-        objective=fig.objective,
-        bound=-np.inf,
-        gap=np.inf,
-        solver="stack shortest paths",
-        seconds=time.perf_counter() - t0,
-    )
+    return _heuristic_schedule(problem, prep, paths, "stack shortest paths", t0)
 
 
 def restrict(problem: ScheduleProblem, per_cell: int) -> tuple[ScheduleProblem, np.ndarray]:
@@ -284,17 +290,7 @@ def rationalise(  # noqa: PLR0912, PLR0915 - greedy phases of the rationalisatio
         allowed[list(users)] = True
     if must_drop():
         return None
-    cand = _assemble(problem, prep, paths)
-    fig = figures(problem, cand)
-    return Schedule(
-        cand=cand,
-        status=Status.HEURISTIC,
-        objective=fig.objective,
-        bound=-np.inf,
-        gap=np.inf,
-        solver="greedy type reduction",
-        seconds=time.perf_counter() - t0,
-    )
+    return _heuristic_schedule(problem, prep, paths, "greedy type reduction", t0)
 
 
 def cellwise_lower_bound(problem: ScheduleProblem) -> LowerBound:
