@@ -21,6 +21,7 @@ __all__ = ["main", "build_parser"]
 _COMMAND_MODULES = (
     "optimizer.cli.section",
     "optimizer.cli.check",
+    "optimizer.cli.fire",
     "optimizer.cli.takedown",
     "optimizer.cli.generate",
     "optimizer.cli.feasibility",
