@@ -214,6 +214,9 @@ class ColumnActions:
             9.5.3(3) rounded down to 25 mm (the catalogue's rule).
         s_link_zone: link spacing provided near beams and slabs and at laps, mm;
             None: 0.6 scl,tmax (9.5.3(4)) rounded down to 25 mm.
+        eta_fi: reduction factor of the design actions in fire, NEd,fi = eta_fi NEd
+            (EN 1992-1-2, 2.4.2); with it mu_fi = NEd,fi / NRd per pair for method A
+            (5.3.2(3)); None: ``CheckSettings.mu_fi`` (0.7, on the safe side).
     """
 
     NEd: ArrayLike
@@ -234,6 +237,7 @@ class ColumnActions:
     V_Ed: ArrayLike | None = None
     s_link: ArrayLike | None = None
     s_link_zone: ArrayLike | None = None
+    eta_fi: ArrayLike | None = None
 
 
 @dataclass
@@ -613,7 +617,9 @@ def check_members(  # noqa: PLR0915 - the member check's phases in clause order,
     if settings.fire is not None:
         l0_fi = _b(actions.l0_fi, n_pairs)
         values["l0_fi"] = np.maximum(l0y, l0z) if l0_fi is None else l0_fi
-        checks.append(fire_check(g, NEd, values, settings.fire, settings.mu_fi, settings.fire_outside_method, params))
+        # 5.3.2(3): mu_fi = NEd,fi / NRd with NEd,fi = eta_fi NEd (2.4.2) where eta_fi is known, else the setting
+        mu_fi = settings.mu_fi if actions.eta_fi is None else _b(actions.eta_fi, n_pairs) * NEd / values["NRd"]
+        checks.append(fire_check(g, NEd, values, settings.fire, mu_fi, settings.fire_outside_method, params))
 
     # Quantities that feed the schedule (not pass/fail).
     values["lap_length"] = laps.lap_length(g["dia_max"], g["fck"], g["fyk"], params=params)

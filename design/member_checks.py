@@ -587,7 +587,7 @@ def fire_check(
     NEd: np.ndarray,
     values: Arrays,
     rating: FireRating,
-    mu_fi: float,
+    mu_fi: float | np.ndarray,
     outside_method: Literal["fail", "flag"],
     params: NationalParameters,
 ) -> CheckColumn:
@@ -602,7 +602,8 @@ def fire_check(
         values: values of the check so far (l0_fi, M02_y, M02_z, ei_y, ei_z, imperfection_axis); the
             axis distances are added.
         rating: standard fire resistance.
-        mu_fi: degree of utilisation in fire (-).
+        mu_fi: degree of utilisation in fire (-), one value or one per pair; each pair takes the
+            column of Table 5.2a at or above its mu_fi (0.2, 0.5, 0.7: no interpolation, on the safe side).
         outside_method: where method A does not apply, "fail" the check or "flag" it as not verified.
         params: national parameters (e_max_fire_factor).
     """
@@ -640,23 +641,32 @@ def fire_check(
         axis=1,
     )
     cond = np.asarray(~bad.any(axis=1))
-    col = next(m for m in (0.2, 0.5, 0.7) if mu_fi <= m + 1e-12) if mu_fi <= 0.7 else None
-    options = fire.TABLE_5_2A[rating][col] if col is not None else []
+    mu = np.broadcast_to(np.asarray(mu_fi, dtype=float), (n_pairs,))
+    values["mu_fi"] = mu.copy()
+    col = np.full(n_pairs, np.nan)  # the column of Table 5.2a each pair reads
     demand = np.full(n_pairs, np.inf)
-    for bmin, amin, needs8 in options:
-        usable = (width >= bmin) & ((g["n_bars"] >= 8) | (not needs8))
-        demand = np.where(usable, np.minimum(demand, amin), demand)
-    applicable = cond.copy() if options else np.zeros_like(cond)
+    has_values = np.zeros(n_pairs, dtype=bool)
+    lower = -np.inf
+    for m in (0.2, 0.5, 0.7):
+        here = (mu > lower + 1e-12) & (mu <= m + 1e-12)
+        lower = m
+        col[here] = m
+        options = fire.TABLE_5_2A[rating][m]
+        has_values |= here & bool(options)
+        for bmin, amin, needs8 in options:
+            usable = here & (width >= bmin) & ((g["n_bars"] >= 8) | (not needs8))
+            demand = np.where(usable, np.minimum(demand, amin), demand)
+    applicable = cond & has_values
 
     def reasons(i: int) -> str:
-        if not options:
-            return f"Table 5.2a gives no value for {rating.name} at mu_fi = {mu_fi:g}"
+        if not has_values[i]:
+            return f"Table 5.2a gives no value for {rating.name} at mu_fi = {mu[i]:.2f}"
         if cond[i]:
             if np.isfinite(demand[i]):
                 return (
                     f"axis distance of the nearest bar a = c + phi_link + phi/2 = {a[i]:g} mm "
                     f"(area-weighted mean am = {g['a_fire_mean'][i]:.1f} mm, Eq. (5.5)); "
-                    f"mu_fi column {col}, width {width[i]:g} mm"
+                    f"mu_fi = {mu[i]:.2f}: column {col[i]:g}, width {width[i]:g} mm"
                 )
             return "section narrower than every bmin of Table 5.2a (or fewer than 8 bars)"
         why = [

@@ -24,7 +24,7 @@ __all__ = ["ACTION_COLUMNS", "OPTIONAL_COLUMNS", "K_COLUMNS", "read_actions_csv"
 # Required in every actions table (kN, kNm; compression positive; moments about the local axes).
 ACTION_COLUMNS = ("stack", "level", "NEd_kN", "My_top_kNm", "My_bot_kNm", "Mz_top_kNm", "Mz_bot_kNm")
 # Optional; blank lengths, exposure and fire come from the scenario's [[settings]], blank ratios are unknown.
-OPTIONAL_COLUMNS = ("l0y_mm", "l0z_mm", "exposure", "fire", "M0Eqp_ratio", "char_ratio")
+OPTIONAL_COLUMNS = ("l0y_mm", "l0z_mm", "exposure", "fire", "M0Eqp_ratio", "char_ratio", "eta_fi")
 K_COLUMNS = ("k1y", "k2y", "k1z", "k2z")  # EN 1992-1-1, 5.8.3.2(3): all four or none
 
 
@@ -32,7 +32,7 @@ def write_actions_csv(actions: pd.DataFrame, path: str | Path) -> Path:
     """Write an actions table in the CSV format (kN, kNm, mm; compression positive).
 
     Columns: ``stack, level, NEd_kN, My_top_kNm, My_bot_kNm, Mz_top_kNm,
-    Mz_bot_kNm`` then, when present, ``l0y_mm, l0z_mm, exposure, fire, M0Eqp_ratio, char_ratio`` and
+    Mz_bot_kNm`` then, when present, ``l0y_mm, l0z_mm, exposure, fire, M0Eqp_ratio, char_ratio, eta_fi`` and
     ``k1y, k2y, k1z, k2z``.
     """
     missing = [c for c in ACTION_COLUMNS if c not in actions.columns]
@@ -167,6 +167,7 @@ def _csv_record(file: str, n: int, rec: Mapping[str, str]) -> dict[str, Any]:
     for col, what in (
         ("M0Eqp_ratio", "M0Eqp/M0Ed between 0 and 1.5 (quasi-permanent over design first-order moment)"),
         ("char_ratio", "a ratio between 0 and 1.5 (characteristic over design actions)"),
+        ("eta_fi", "a ratio between 0 and 1.5 (design actions in fire over design actions, EN 1992-1-2 2.4.2)"),
     ):
         if rec.get(col, ""):
             x = _csv_float(file, n, col, rec[col], 0.0)
@@ -192,12 +193,13 @@ def _actions_frame(scenario: Scenario, records: Mapping[CellId, dict[str, Any]],
         row["fire"] = rec.get("fire", c.settings.fire)
         row["M0Eqp_ratio"] = rec.get("M0Eqp_ratio", math.nan)  # blank: not known (phi_ef with 1.0, said)
         row["char_ratio"] = rec.get("char_ratio", math.nan)  # blank: design actions for 7.2(2), said
+        row["eta_fi"] = rec.get("eta_fi", math.nan)  # blank: mu_fi = 0.7 for method A (5.3.2(3))
         if any_k:
             for k in K_COLUMNS:
                 default = getattr(el, k) if el is not None else None
                 row[k] = rec.get(k, default)
         rows.append(row)
     df = pd.DataFrame(rows)
-    for col in ("l0y_mm", "l0z_mm", "M0Eqp_ratio", "char_ratio", *(K_COLUMNS if any_k else ())):
+    for col in ("l0y_mm", "l0z_mm", "M0Eqp_ratio", "char_ratio", "eta_fi", *(K_COLUMNS if any_k else ())):
         df[col] = df[col].astype(float)
     return df

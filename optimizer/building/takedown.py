@@ -262,6 +262,10 @@ def _tables(
         q_red, psi_q, reduction = _reduced(load, mode)
         NEd, expr = combine(load.G_kN, q_red, psi_q, scenario.params, scenario.takedown.combination)
         N_qp = load.G_kN + sum(PSI_FACTORS[cat].psi2 * v[0] for (cat, _), v in load.Q.items())
+        # EN 1992-1-2, 2.4.2(2): eta_fi = Ed,fi / Ed with Ed,fi = Gk + psi_fi Qk (EN 1990, Eq. (6.11b));
+        # psi_fi = psi1, the more onerous of the two choices of EN 1991-1-2, 4.3.1(2) (recalled from memory)
+        N_fi = load.G_kN + sum(PSI_FACTORS[cat].psi1 * v[0] for (cat, _), v in load.Q.items())
+        eta = min(N_fi / NEd, 1.0) if NEd > 0 else 1.0
         N_char = load.G_kN + q_red
 
         def ends(key: str, ax: str, cid: CellId = c.id) -> float:
@@ -283,6 +287,7 @@ def _tables(
             "fire": c.settings.fire,
             "M0Eqp_ratio": ratio,
             "char_ratio": char,
+            "eta_fi": eta,
         }
         if any_k:
             el = c.settings.effective_length
@@ -311,6 +316,8 @@ def _tables(
                 "M0Eqp_ratio": ratio,
                 "N_char_kN": N_char,
                 "char_ratio": char,
+                "N_fi_kN": N_fi,
+                "eta_fi": eta,
             }
         )
     actions = pd.DataFrame(rows)

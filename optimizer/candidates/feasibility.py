@@ -76,6 +76,7 @@ class CellTable:
     l0_fi: np.ndarray  # effective length in fire, mm
     M0Eqp_ratio: np.ndarray  # M0Eqp/M0Ed for phi_ef (EN 1992-1-1, 5.8.4(2)); nan where not known
     char_ratio: np.ndarray  # characteristic over design actions for 7.2(2); nan where not known
+    eta_fi: np.ndarray  # design actions in fire over design actions (EN 1992-1-2, 2.4.2); nan where not known
 
     def __len__(self) -> int:
         return len(self.cells)
@@ -106,6 +107,7 @@ class CellTable:
             l0_fi=self.l0_fi[cc],
             M0Eqp_ratio=known(self.M0Eqp_ratio),
             char_ratio=known(self.char_ratio),
+            eta_fi=known(self.eta_fi),
         )
 
 
@@ -187,7 +189,7 @@ def cell_table(scenario: Scenario, actions: pd.DataFrame) -> CellTable:
     rating = np.array([int(str(f).upper().removeprefix("R")) if f else 0 for f in fire])
     l0_fi = np.where(rating > 30, np.where(has_above, 0.5, 0.7) * out["height"], np.maximum(out["l0y"], out["l0z"]))
     ratios = {}
-    for col in ("M0Eqp_ratio", "char_ratio"):
+    for col in ("M0Eqp_ratio", "char_ratio", "eta_fi"):
         ratios[col] = np.full(n, np.nan)
         if col in actions.columns:
             by_key = dict(

@@ -128,3 +128,20 @@ def test_a_drier_environment_gives_more_creep():
 
     assert float(phi_inf(50.0, 200.0, 48.0, 28.0)) > float(phi_inf(80.0, 200.0, 48.0, 28.0))
     assert not math.isnan(float(phi_inf(80.0, 200.0, 48.0, 28.0)))
+
+
+def test_takedown_gives_eta_fi_from_the_loads(small_scenario):
+    """EN 1992-1-2, 2.4.2(2): eta_fi = Ed,fi / Ed with Ed,fi = Gk + psi1 Qk (EN 1990 Eq. (6.11b); psi1 of
+    EN 1990 Table A1.1, office floors 0.5), by hand from the takedown's own detail table."""
+    r = takedown(small_scenario)
+    a, d = r.actions, r.detail
+    assert "eta_fi" in a.columns
+    cats = {lf.category for lf in small_scenario.level_floors}
+    for i in range(len(d)):
+        row = d.iloc[i]
+        if len(cats) == 1:
+            psi1 = PSI_FACTORS[next(iter(cats))].psi1
+            assert row["N_fi_kN"] == pytest.approx(row["Gk_kN"] + psi1 * row["Qk_kN"], rel=1e-9)
+        assert a["eta_fi"].iloc[i] == pytest.approx(row["N_fi_kN"] / row["NEd_kN"], rel=1e-9)
+    # the usual range of Figure 2.1 of EN 1992-1-2 (about 0.5 to 0.7; recalled from memory)
+    assert a["eta_fi"].between(0.4, 0.75).all()

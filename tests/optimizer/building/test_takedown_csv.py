@@ -38,7 +38,7 @@ def test_round_trip_takedown_to_csv(small, tmp_path):
     path = write_actions_csv(r.actions, tmp_path / "out.csv")
     header = path.read_text().splitlines()[0].split(",")
     assert header[:7] == list(ACTION_COLUMNS)
-    assert header[7:] == ["l0y_mm", "l0z_mm", "exposure", "fire", "M0Eqp_ratio", "char_ratio"]
+    assert header[7:] == ["l0y_mm", "l0z_mm", "exposure", "fire", "M0Eqp_ratio", "char_ratio", "eta_fi"]
     back = read_actions_csv(path, small)
     for col in (*ACTION_COLUMNS[2:], "M0Eqp_ratio"):
         assert back[col].tolist() == pytest.approx(r.actions[col].tolist(), abs=1e-3)

@@ -114,6 +114,8 @@ def _actions_of(ct, c):
         l_clear=ct.l_clear[c],
         l0_fi=ct.l0_fi[c],
         M0Eqp_ratio=ct.M0Eqp_ratio[c] if np.isfinite(ct.M0Eqp_ratio[c]) else None,
+        char_ratio=ct.char_ratio[c] if np.isfinite(ct.char_ratio[c]) else None,
+        eta_fi=ct.eta_fi[c] if np.isfinite(ct.eta_fi[c]) else None,
     )
 
 
