@@ -257,8 +257,10 @@ def run_scenario(  # noqa: PLR0915 - the stages of the main job in order
         "lap zone: bars below plus bars above <= 0.08 Ac (9.5.2(3)), checked on the schedule.",
         "Biaxial bending by EN 1992-1-1 Eq. (5.39) with the criteria of 5.38; section resistance by strain "
         "compatibility (6.1), parabola-rectangle concrete, horizontal steel top branch.",
-        "Fire: EN 1992-1-2 5.3.2 method A, Table 5.2a, mu_fi = 0.7; l0,fi = 0.5 l (0.7 l in the top storey) "
-        "for R > 30 in the braced structure.",
+        "Fire: EN 1992-1-2 5.3.2 method A, Table 5.2a at mu_fi = eta_fi NEd / NRd (5.3.2(3); eta_fi = "
+        "(Gk + psi1 Qk) / NEd from the takedown, 0.7 for mu_fi where the actions do not give it; the derived "
+        "cover meets the mu_fi = 0.7 column); l0,fi = 0.5 l (0.7 l in the top storey) for R > 30 in the "
+        "braced structure.",
         f"Nominal cover: {cat.cover_note}.",
     ]
     return RunResult(
