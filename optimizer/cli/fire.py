@@ -33,7 +33,7 @@ from design.heat.isotherm import ETA_FI_SIMPLIFIED, MIN_WIDTH_TABLE_B1, check_fi
 from design.heat.thermal import ThermalSettings, isotherm_depth, solve_section, temperature_at
 from design.sections import RectSection
 from optimizer import CAUTION
-from optimizer.cli.spec import load_spec_file, number, section_spec
+from optimizer.cli.spec import load_spec_file, number, plot_target, section_spec
 from optimizer.errors import InputError
 
 __all__ = ["add_parser", "run", "FIRE_KEYS", "FIRE_CAUTION"]
@@ -248,12 +248,7 @@ def run(args: argparse.Namespace) -> int:
     data = load_spec_file(args.spec)
     out = analyse(data, str(args.spec))
     if args.plot:
-        target = Path(args.plot)
-        if target.suffix.lower() != ".png":
-            raise InputError("--plot", "--plot", args.plot, "a file name ending in .png")
-        if target.resolve() == Path(args.spec).resolve():
-            raise InputError("--plot", "--plot", args.plot, "a new file, not the specification itself")
-        _plot(out, target)
+        _plot(out, plot_target(args.plot, args.spec))
     for w in out["warnings"]:
         print(f"colstack fire: warning: {w}", file=sys.stderr)
     out.pop("_thermal")

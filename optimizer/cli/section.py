@@ -23,8 +23,7 @@ import numpy as np
 from design.resistance import DesignSection, SectionBatch
 from design.sections import RectSection, check_bar_spacing
 from optimizer import CAUTION
-from optimizer.cli.spec import SectionSpec, load_spec_file, section_spec
-from optimizer.errors import InputError
+from optimizer.cli.spec import SectionSpec, load_spec_file, plot_target, section_spec
 
 __all__ = ["add_parser", "run", "SectionReport", "evaluate"]
 
@@ -164,12 +163,7 @@ def run(args: argparse.Namespace) -> int:
     NEd_kN = spec.NEd_kN if spec.NEd_kN is not None else 0.0
     rep = evaluate(spec.design, NEd_kN)
     if args.plot:
-        out = Path(args.plot)
-        if out.suffix.lower() != ".png":
-            raise InputError("--plot", "--plot", args.plot, "a file name ending in .png")
-        if out.resolve() == Path(args.spec).resolve():
-            raise InputError("--plot", "--plot", args.plot, "a new file, not the specification itself")
-        plot_interaction(spec.design, NEd_kN, out)
+        plot_interaction(spec.design, NEd_kN, plot_target(args.plot, args.spec))
     for w in spec.warnings:
         print(f"colstack section: warning: {w}", file=sys.stderr)
     if args.json:

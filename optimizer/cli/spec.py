@@ -33,6 +33,7 @@ __all__ = [
     "number",
     "concrete_class",
     "section_capacity",
+    "plot_target",
 ]
 
 SECTION_KEYS = {
@@ -300,3 +301,13 @@ def _integer(path: str, field: str, value: Any, minimum: int) -> int:
     if isinstance(value, bool) or not isinstance(value, int) or value < minimum:
         raise InputError(path, field, value, f"a whole number >= {minimum}")
     return int(value)
+
+
+def plot_target(plot: str, spec_path: str | Path) -> Path:
+    """The picture file of ``--plot``: a new .png, never the specification itself (InputError otherwise)."""
+    target = Path(plot)
+    if target.suffix.lower() != ".png":
+        raise InputError("--plot", "--plot", plot, "a file name ending in .png")
+    if target.resolve() == Path(spec_path).resolve():
+        raise InputError("--plot", "--plot", plot, "a new file, not the specification itself")
+    return target
