@@ -121,15 +121,15 @@ ETA_FI_SIMPLIFIED = 0.7  # EN 1992-1-2, 2.4.2(3), Note: recommended simplificati
 
 # Temperatures of the rows of EN 1992-1-2 Tables 3.1 and 3.2a, C.
 THETA_TABLE = np.array([20, 100, 200, 300, 400, 500, 600, 700, 800, 900, 1000, 1100, 1200], dtype=float)
-# EN 1992-1-2, Table 3.2a, class N, fsy,theta/fyk (tension, eps_s,fi >= 2 %). Recalled from memory; the rows
-# agree with a public transcription of the table found with the search tool.
+# EN 1992-1-2, Table 3.2a, class N, fsy,theta/fyk (tension, eps_s,fi >= 2 %). Recalled from memory; verify
+# against the printed standard.
 KS_HOT_ROLLED = np.array([1.0, 1.0, 1.0, 1.0, 1.0, 0.78, 0.47, 0.23, 0.11, 0.06, 0.04, 0.02, 0.0])
 KS_COLD_WORKED = np.array([1.0, 1.0, 1.0, 1.0, 0.94, 0.67, 0.40, 0.12, 0.11, 0.08, 0.05, 0.03, 0.0])
-# EN 1992-1-2, Table 3.1, fc,theta/fck. Recalled from memory; agrees with the same transcription.
+# EN 1992-1-2, Table 3.1, fc,theta/fck. Recalled from memory; verify against the printed standard.
 KC_SILICEOUS = np.array([1.0, 1.0, 0.95, 0.85, 0.75, 0.60, 0.45, 0.30, 0.15, 0.08, 0.04, 0.01, 0.0])
 KC_CALCAREOUS = np.array([1.0, 1.0, 0.97, 0.91, 0.85, 0.74, 0.60, 0.43, 0.27, 0.15, 0.06, 0.02, 0.0])
 # EN 1992-1-2, 4.2.4.3, Figure 4.2a, curve 3 (compression, and tension with eps_s,fi < 2 %): breakpoints of its
-# piecewise-linear expressions. Recalled from memory; the expressions agree with a public transcription.
+# piecewise-linear expressions. Recalled from memory; verify against the printed standard.
 _CURVE3_THETA = np.array([20.0, 100.0, 400.0, 500.0, 700.0, 1200.0])
 _CURVE3_KS = np.array([1.0, 1.0, 0.70, 0.57, 0.10, 0.0])
 

@@ -3,13 +3,12 @@
 Sources:
 1. EN 1992-1-2:2004, Table 3.1 (concrete), Table 3.2a (reinforcement, class N) and 4.2.4.3, Figure 4.2a
    curve 3; 2.4.2, Eqs. (2.5), (2.5a), (2.5b), Figure 2.1 and the Note to 2.4.2(3). Values recalled from
-   memory; the table rows agree with a public transcription found with the search tool.
+   memory (verify against the printed standard).
 2. Closed forms: the squash load of the reduced section, the ambient engine with all partial factors 1
    (a500 = 0, bars at 20 C), monotonic behaviour, and an independent per-bar strain-compatibility
    reference written here (midpoint strips, per-bar yield strength ks fyk, displaced concrete only
    inside the reduced section), which measures what the area scaling of the module changes.
-3. Published worked example of the 500 C method for a column with printed numbers: none was found with
-   the search tool, so none is used.
+3. Published worked example of the 500 C method for a column with printed numbers: none is used yet.
 """
 
 from __future__ import annotations
