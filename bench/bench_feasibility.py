@@ -18,7 +18,7 @@ import time
 import numpy as np
 from record import argument_parser, machine, write_result
 
-from design.member import ColumnActions, check_column
+from design.member import check_column
 from design.resistance import SectionBatch
 from design.section_data import SectionData
 from optimizer.building.generate import generate_tower
@@ -67,17 +67,7 @@ def main(note: str | None = None) -> None:
     for c, t in sample[:N_TIMED]:
         check_column(
             cat.designs[t],
-            ColumnActions(
-                NEd=ct.NEd[c],
-                My_top=ct.My_top[c],
-                My_bot=ct.My_bot[c],
-                Mz_top=ct.Mz_top[c],
-                Mz_bot=ct.Mz_bot[c],
-                l0y=ct.l0y[c],
-                l0z=ct.l0z[c],
-                l_clear=ct.l_clear[c],
-                l0_fi=ct.l0_fi[c],
-            ),
+            ct.actions(np.array([c])),  # the actions the matrix itself checks
             check_settings_for(sc, ct.exposure[c], ct.fire[c]),
             sc.params,
         )

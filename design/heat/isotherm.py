@@ -545,6 +545,7 @@ def check_fire_isotherm(
     MEdz_fi: float,
     curve: SteelCurve = SteelCurve.COMPRESSION,
     rating_minutes: int | None = None,
+    resistance: FireResistance | None = None,
 ) -> list[CheckResult]:
     """Checks of a column section in fire by the 500 C isotherm method.
 
@@ -571,9 +572,15 @@ def check_fire_isotherm(
         curve: the steel reduction curve.
         rating_minutes: required standard fire resistance R, minutes; when given, a fifth check
             compares the smaller section dimension with the minimum width of Table B.1 (60 to 240).
+        resistance: :func:`fire_resistance` of the same inputs when the caller has it already (not
+            computed twice).
 
     """
-    r = fire_resistance(section, design_fck, fyk, bar_theta, a500, NEd_fi, curve)
+    r = (
+        resistance
+        if resistance is not None
+        else fire_resistance(section, design_fck, fyk, bar_theta, a500, NEd_fi, curve)
+    )
     red = r.reduced
     geom = f"b_fi x h_fi = {red.b_fi:g} x {red.h_fi:g} mm, min ks = {min(r.ks):.2f}"
     checks = [

@@ -132,7 +132,7 @@ def analyse(data: dict[str, Any], path: str) -> dict[str, Any]:
     # Table B.1 gives minimum widths from R60 on (none for R30)
     in_table = rating.value if rating.value in MIN_WIDTH_TABLE_B1 else None
     checks = check_fire_isotherm(
-        sec, fck, fyk, theta, a500, NEd_fi * 1e3, My_fi * 1e6, Mz_fi * 1e6, rating_minutes=in_table
+        sec, fck, fyk, theta, a500, NEd_fi * 1e3, My_fi * 1e6, Mz_fi * 1e6, rating_minutes=in_table, resistance=res
     )
     utils = [c.utilisation if c.applicable else float("inf") for c in checks]
     governing = checks[int(np.argmax(utils))]
